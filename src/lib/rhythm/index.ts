@@ -1,0 +1,4 @@
+/** Tactus rhythm core: pure TypeScript, no framework imports. Everything public is re-exported here. */
+export * from "./rational";
+export * from "./kit";
+export * from "./document";
