@@ -2,3 +2,4 @@
 export * from "./rational";
 export * from "./kit";
 export * from "./document";
+export * from "./readability";

@@ -1,0 +1,3 @@
+/** Readability measures: metrical weights, published syncopation measures, and figures for a document. */
+export * from "./metrical-weights";
+export * from "./syncopation";
