@@ -3,3 +3,4 @@ export * from "./rational";
 export * from "./kit";
 export * from "./document";
 export * from "./readability";
+export * from "./notation";

@@ -1,0 +1,2 @@
+/** Notation spelling: groove document → renderer-neutral notation model. */
+export * from "./model";
