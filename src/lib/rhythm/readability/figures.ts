@@ -105,7 +105,12 @@ export function documentHierarchy(doc: GrooveDocument): MetricalHierarchy {
   return metricalHierarchy(doc.meter, doc.grid.step, doc.tempo.beatNote);
 }
 
-/** Onset pulses of each part (chords and simultaneous kit hits count once). */
+/** Keys notes that start a sound: a note marked as continuing from the end of the loop (written by a rotation) does not. */
+function onsetNotes(doc: GrooveDocument) {
+  return doc.keys.notes.filter((n) => (n as { tiedFromEnd?: boolean }).tiedFromEnd !== true);
+}
+
+/** Onset pulses of each part (chords and simultaneous kit hits count once; the written bars are a loop). */
 export function partOnsets(doc: GrooveDocument, h: MetricalHierarchy = documentHierarchy(doc)): Record<PartName, number[]> {
   const toPulse = (at: string) => Number(q(at).div(h.pulse).n);
   const sets: Record<PartName, Set<number>> = { hands: new Set(), feet: new Set(), keys: new Set() };
@@ -113,7 +118,7 @@ export function partOnsets(doc: GrooveDocument, h: MetricalHierarchy = documentH
     const set = KIT_PIECES[lane.piece].limb === "foot" ? sets.feet : sets.hands;
     for (const hit of lane.hits) set.add(toPulse(hit.at));
   }
-  for (const n of doc.keys.notes) sets.keys.add(toPulse(n.at));
+  for (const n of onsetNotes(doc)) sets.keys.add(toPulse(n.at));
   const sorted = (s: Set<number>) => [...s].sort((a, b) => a - b);
   return { hands: sorted(sets.hands), feet: sorted(sets.feet), keys: sorted(sets.keys) };
 }
@@ -178,7 +183,7 @@ export function readabilityFigures(doc: GrooveDocument, options: FiguresOptions 
   for (const set of kickBars.values()) if (set.has(0)) barsWithKickOnOne++;
 
   const bpm = toNumber(doc.tempo.bpm);
-  const events = doc.kit.lanes.reduce((s, l) => s + l.hits.length, 0) + doc.keys.notes.length;
+  const events = doc.kit.lanes.reduce((s, l) => s + l.hits.length, 0) + onsetNotes(doc).length;
   let notation: NotationCounts | null = null;
   if (options.notation) {
     try {
