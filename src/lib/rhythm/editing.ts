@@ -83,7 +83,13 @@ export interface BarClip {
 // Positions
 
 const byAt = (a: { at: Rational }, b: { at: Rational }) => q(a.at).compare(q(b.at));
-const sortNotes = (notes: KeyNote[]) => notes.sort((a, b) => byAt(a, b) || a.pitch - b.pitch);
+/** A note moved away from 0 no longer continues a note held over the loop's seam. */
+const untie = (n: KeyNote): KeyNote => {
+  if (!n.tiedFromEnd || n.at === "0") return n;
+  const { tiedFromEnd: _t, ...rest } = n;
+  return rest;
+};
+const sortNotes = (notes: KeyNote[]) => notes.map(untie).sort((a, b) => byAt(a, b) || a.pitch - b.pitch);
 
 /** Step count of the grid: how many grid steps the groove has. */
 export function stepCount(doc: Pick<GrooveDocument, "meter" | "bars" | "grid">): number {
@@ -472,7 +478,7 @@ export function insertBar(doc: GrooveDocument, index: number, count = 1): Groove
     bars: doc.bars + count,
     sections: sectionsAfterInsert(doc, index, count),
     kit: { ...doc.kit, lanes: doc.kit.lanes.map((l) => ({ ...l, hits: l.hits.map(move) })) },
-    keys: { ...doc.keys, notes: doc.keys.notes.map(move) },
+    keys: { ...doc.keys, notes: doc.keys.notes.map((n) => untie(move(n))) },
   };
 }
 
@@ -562,6 +568,9 @@ export function copyBars(doc: GrooveDocument, start: number, count = 1): BarClip
   };
 }
 
+/** Reason given for material replaced by a paste (so a UI can tell replaced from misfit). */
+export const PASTED_OVER = "it was pasted over";
+
 /**
  * Paste a clip over the bars starting at `atBar`, replacing what they held (the groove grows when the clip
  * runs past its end). Each clip bar lands on one target bar at the same offset; material that does not fit
@@ -581,7 +590,7 @@ export function pasteBars(doc: GrooveDocument, clip: BarClip, atBar: number): Ed
   const dropped: DroppedItem[] = [];
   const adjusted: AdjustedNote[] = [];
   const inside = (p: Fraction) => p.compare(from) >= 0 && p.compare(to) < 0;
-  const replaced = "it was pasted over";
+  const replaced = PASTED_OVER;
   const clipWhere = (p: Fraction) => {
     const i = Number(p.div(clipBar).floor().valueOf());
     return `copied bar ${i + 1}, ${describeAt({ meter: clip.meter, grid: { step: clip.step } }, p.sub(clipBar.mul(i))).replace(/^bar 1, /, "")}`;

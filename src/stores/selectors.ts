@@ -1,0 +1,145 @@
+/**
+ * Derived views of the groove document for the editor: grid columns, row lists, labels for people and
+ * screen readers. Pure functions of the document (no second model is kept anywhere).
+ */
+import {
+  KIT_PIECES,
+  barLength,
+  q,
+  type GrooveDocument,
+  type KitHit,
+  type KitPieceId,
+} from "../lib/rhythm";
+import { atOfStep, describeAt, locate, stepCount } from "../lib/rhythm/editing";
+
+export interface GridColumn {
+  /** 0-based column (grid step) index in the whole groove. */
+  col: number;
+  at: string;
+  /** 0-based bar. */
+  bar: number;
+  /** 0-based beat inside the bar. */
+  beat: number;
+  /** First step of a bar. */
+  barStart: boolean;
+  /** Step that falls exactly on a beat. */
+  beatStart: boolean;
+  /** Step on the start of a beat group (grouping such as 2+2+3), or on a beat when there is no grouping. */
+  groupStart: boolean;
+  /** Short count shown above the column: the beat number on a beat, a counting syllable or a dot otherwise. */
+  count: string;
+}
+
+/** Counting syllables per steps-in-a-beat (common practice: "1 e & a" for sixteenths, "1 & a" for triplets). */
+const SYLLABLES: Record<number, readonly string[]> = {
+  1: [""],
+  2: ["", "&"],
+  3: ["", "&", "a"],
+  4: ["", "e", "&", "a"],
+};
+
+/**
+ * Every grid column of the groove with its bar, beat and line kind.
+ * @example gridColumns(emptyGroove()).filter((c) => c.beatStart).length // 4
+ */
+export function gridColumns(doc: Pick<GrooveDocument, "meter" | "grid" | "bars">): GridColumn[] {
+  const n = stepCount(doc);
+  const beatLen = q(1).div(doc.meter.beatUnit);
+  const bar = barLength(doc.meter);
+  const perBeat = beatLen.div(q(doc.grid.step));
+  const stepsPerBeat = perBeat.d === 1n ? Number(perBeat.valueOf()) : 0;
+  const syll = SYLLABLES[stepsPerBeat];
+  const groupStarts = new Set<number>();
+  let acc = 0;
+  for (const g of doc.meter.grouping ?? []) {
+    groupStarts.add(acc);
+    acc += g;
+  }
+  const cols: GridColumn[] = [];
+  for (let col = 0; col < n; col++) {
+    const at = atOfStep(doc, col);
+    const l = locate(doc, at);
+    const beatStart = l.withinBeat.n === 0n;
+    const barStart = q(at).div(bar).d === 1n;
+    const groupStart = barStart || (beatStart && (doc.meter.grouping ? groupStarts.has(l.beat - 1) : true));
+    let count = "·";
+    if (beatStart) count = String(l.beat);
+    else if (syll && l.step > 0) count = syll[l.step - 1] || "·";
+    cols.push({ col, at, bar: l.bar - 1, beat: l.beat - 1, barStart, beatStart, groupStart, count });
+  }
+  return cols;
+}
+
+/** Dynamic and articulation in words, for the cell's accessible name. */
+export function hitState(hit: KitHit | undefined): string {
+  if (!hit) return "empty";
+  const words = [hit.dynamic === "normal" ? "hit" : hit.dynamic];
+  if (hit.articulation) words.push(hit.articulation);
+  return words.join(", ");
+}
+
+/**
+ * Accessible name of a kit cell: piece, bar, beat (and step), state.
+ * @example kitCellLabel(doc, "snare", "1/4", hit) // "Snare, bar 1, beat 2: accent"
+ */
+export function kitCellLabel(doc: Pick<GrooveDocument, "meter" | "grid">, piece: KitPieceId, at: string, hit: KitHit | undefined): string {
+  return `${KIT_PIECES[piece].name}, ${describeAt(doc, at)}: ${hitState(hit)}`;
+}
+
+const NOTE_NAMES = ["C", "C♯", "D", "D♯", "E", "F", "F♯", "G", "G♯", "A", "A♯", "B"] as const;
+
+/**
+ * Pitch name with octave, MIDI 60 = C4 (scientific pitch notation, as most keyboard software labels middle C).
+ * @example pitchName(61) // "C♯4"
+ */
+export function pitchName(pitch: number): string {
+  return `${NOTE_NAMES[pitch % 12]}${Math.floor(pitch / 12) - 1}`;
+}
+
+/** Keys shown by default: two octaves from C3 (48) to B4 (71), around the split at middle C. */
+export const DEFAULT_KEYS_RANGE = { low: 48, high: 71 } as const;
+
+/**
+ * The pitch rows to show, highest first: the chosen range, widened to whole octaves to include every note.
+ * @example keysRows(doc, { low: 48, high: 71 })[0] // 71
+ */
+export function keysRows(doc: Pick<GrooveDocument, "keys">, range: { low: number; high: number }): number[] {
+  let { low, high } = range;
+  for (const n of doc.keys.notes) {
+    if (n.pitch < low) low = n.pitch - (n.pitch % 12);
+    if (n.pitch > high) high = Math.min(127, n.pitch + (11 - (n.pitch % 12)));
+  }
+  const rows: number[] = [];
+  for (let p = high; p >= low; p--) rows.push(p);
+  return rows;
+}
+
+/** Number of hits in the kit part. */
+export function hitCount(doc: GrooveDocument): number {
+  return doc.kit.lanes.reduce((a, l) => a + l.hits.length, 0);
+}
+
+/** Time signature as text, "7/8 (2+2+3)". */
+export function meterText(doc: Pick<GrooveDocument, "meter">): string {
+  const { beatsPerBar, beatUnit, grouping } = doc.meter;
+  return `${beatsPerBar}/${beatUnit}${grouping ? ` (${grouping.join("+")})` : ""}`;
+}
+
+/** Grid steps offered by the editor, with names for people (common practice note names). */
+export const GRID_CHOICES = [
+  { step: "1/4", name: "Quarters" },
+  { step: "1/8", name: "Eighths" },
+  { step: "1/12", name: "Eighth triplets" },
+  { step: "1/16", name: "Sixteenths" },
+  { step: "1/24", name: "Sixteenth triplets" },
+  { step: "1/32", name: "Thirty-seconds" },
+] as const;
+
+/** Beat notes offered for the tempo ("♩ = 96"). */
+export const BEAT_NOTE_CHOICES = [
+  { note: "1/8", name: "Eighth" },
+  { note: "1/4", name: "Quarter" },
+  { note: "3/8", name: "Dotted quarter" },
+  { note: "1/2", name: "Half" },
+  { note: "3/4", name: "Dotted half" },
+] as const;
