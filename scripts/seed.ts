@@ -1,17 +1,14 @@
 // `tsx scripts/seed.ts`: seeds the demo users and grooves into DATABASE_URL. Idempotent: fixed ids, and rows
 // that already exist are left as they are (a demo user who changed a password keeps it).
 import { createHash } from "node:crypto";
-import { hash } from "@node-rs/argon2";
 import canonicalize from "canonicalize";
 import { eq, inArray } from "drizzle-orm";
 import { DEMO_GROOVES } from "../src/lib/demo/grooves";
 import { DEMO_USERS } from "../src/lib/demo/people";
 import { assertGroove } from "../src/lib/rhythm/document";
+import { hashPassword } from "../src/lib/server/password";
 import { closeDb, getDb } from "../src/lib/server/db/index";
 import { auditEvents, grooveVersions, grooves, users } from "../src/lib/server/db/schema";
-
-/** OWASP's argon2id baseline: 19 MiB memory, 2 iterations, 1 lane (Algorithm.Argon2id = 2). */
-const ARGON2ID = { algorithm: 2, memoryCost: 19456, timeCost: 2, parallelism: 1 } as const;
 
 /** SHA-256 of the RFC 8785 canonical JSON of a document. */
 function contentHash(document: unknown): string {
@@ -33,7 +30,7 @@ async function seed(): Promise<{ users: number; grooves: number }> {
         id: user.id,
         email: user.email.toLowerCase(),
         displayName: user.displayName,
-        passwordHash: await hash(user.password, ARGON2ID),
+        passwordHash: await hashPassword(user.password), // argon2id, m=19456 KiB, t=2, p=1
         siteRole: user.siteRole,
         emailVerifiedAt: new Date(),
       })

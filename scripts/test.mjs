@@ -14,7 +14,7 @@ function ensureChromium() {
   if (existsSync(wanted)) return wanted;
   if (process.env.CHROMIUM_PATH) throw new Fatal(`CHROMIUM_PATH=${wanted} does not exist: point it at a chromium binary or unset it.`);
   if (!canApt()) throw new Fatal("chromium not found at /usr/bin/chromium: install Debian's chromium package (as root: apt-get install chromium) or set CHROMIUM_PATH.");
-  if (!aptInstall(["chromium"]) || !existsSync(wanted)) {
+  if (!aptInstall(["chromium"], { recommends: true }) || !existsSync(wanted)) {
     throw new Fatal("apt-get could not install chromium: check the apt output above, then run again.");
   }
   return wanted;

@@ -182,10 +182,13 @@ export function canApt() {
 
 let aptUpdated = false;
 
-/** Installs Debian packages with apt-get, running `apt-get update` once if the first attempt fails. */
-export function aptInstall(packages) {
+/**
+ * Installs Debian packages with apt-get, running `apt-get update` once if the first attempt fails.
+ * `recommends: false` adds --no-install-recommends (PostgreSQL); chromium keeps its recommended fonts.
+ */
+export function aptInstall(packages, { recommends = false } = {}) {
   const env = { ...process.env, DEBIAN_FRONTEND: "noninteractive" };
-  const args = ["install", "-y", "--no-install-recommends", ...packages];
+  const args = ["install", "-y", ...(recommends ? [] : ["--no-install-recommends"]), ...packages];
   say(`installing ${packages.join(", ")} with apt-get`);
   let result = spawnSync("apt-get", args, { env, stdio: "inherit" });
   if (result.status !== 0 && !aptUpdated) {
