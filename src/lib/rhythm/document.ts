@@ -99,6 +99,12 @@ export const keyNoteSchema = z.object({
   /** MIDI note number, 60 = middle C. */
   pitch: z.number().int().min(0, "pitch must be a MIDI number from 0 to 127").max(127, "pitch must be a MIDI number from 0 to 127"),
   velocity: z.number().int().min(1).max(127).default(90),
+  /**
+   * Loops only: this note (at 0) continues the note of the same pitch and velocity that ends where the groove
+   * ends, so when the loop repeats they are one note held across the seam. Written by `displace` when a
+   * rotation splits a held note; lets the inverse rotation join the two pieces again exactly.
+   */
+  tiedFromEnd: z.boolean().optional(),
 });
 
 const grooveObjectSchema = z.object({
@@ -180,6 +186,7 @@ function checkGroove(doc: z.output<typeof grooveObjectSchema>, ctx: Ctx): void {
     else if (at.div(step).d !== 1n) issue(["keys", "notes", i, "at"], `position ${n.at} is not on the ${doc.grid.step} grid`);
     else if (end.compare(total) > 0) issue(["keys", "notes", i, "duration"], `note at ${n.at} lasting ${n.duration} runs past the end of the groove`);
     if (q(n.duration).div(step).d !== 1n) issue(["keys", "notes", i, "duration"], `duration ${n.duration} is not a whole number of ${doc.grid.step} steps`);
+    if (n.tiedFromEnd && at.n !== 0n) issue(["keys", "notes", i, "tiedFromEnd"], `only a note at 0 can continue from the end of the groove`);
     const key = `${n.at}|${n.pitch}`;
     if (seenNotes.has(key)) issue(["keys", "notes", i], `two notes of pitch ${n.pitch} start at ${n.at}`);
     seenNotes.add(key);

@@ -1,0 +1,243 @@
+/**
+ * Proof of equivalence: do two grooves sound the same?
+ *
+ * Both documents are compiled to schedules (seconds) and compared as multisets of sounding events:
+ * onset time, sound identity (kit piece and articulation, or keys pitch), velocity, and for keys the
+ * duration. Kit durations are nominal and not compared. Tolerance: 1 microsecond.
+ *
+ * Verdicts:
+ * - "identical": the same events at the same times;
+ * - "offset": the same events moved by a constant time. First the shift that aligns the two first onsets is
+ *   tried; then, when both grooves are loops (no sections or one) of the same length, every rotation that
+ *   lines an event of b up with a like event of a (a loop heard from another point). For a rotation, notes
+ *   held across either loop's seam are compared as one note (see `tiedFromEnd`);
+ * - "different": the first mismatches, each in bars and beats of the side where the event sits.
+ */
+import { barLength, playOrder, type GrooveDocument } from "./document";
+import { describePosition } from "./describe-position";
+import { fmt, Fraction, type Rational } from "./rational";
+import { compileSchedule, secondsPerWholeNote, type ScheduledEvent } from "./schedule";
+
+/** Onsets and durations closer than this are equal (1 microsecond). */
+export const EQUIVALENCE_TOLERANCE_SECONDS = 1e-6;
+
+export interface Mismatch {
+  /** The side that has this event without a partner on the other side. */
+  side: "a" | "b";
+  time: number;
+  /** 1-based written bar and counted beat of the event on its side. */
+  bar: number;
+  beat: number;
+  /** Index in the play order (0-based), useful when a bar is repeated. */
+  pass: number;
+  kind: "kit" | "keys";
+  piece?: ScheduledEvent["piece"];
+  pitch?: number;
+  velocity: number;
+  /** e.g. "bar 2, beat 3: snare (accent) only in b". */
+  text: string;
+}
+
+export type Equivalence =
+  | { verdict: "identical"; matched: number }
+  | {
+      verdict: "offset";
+      /** b sounds this many seconds after a (negative: before). */
+      offsetSeconds: number;
+      offsetMs: number;
+      /** The same offset in a's note values (whole notes). */
+      offsetNotes: Rational;
+      /** True when the match is a rotation of a loop rather than a shift of the whole timeline. */
+      rotation: boolean;
+      matched: number;
+    }
+  | { verdict: "different"; matched: number; mismatches: Mismatch[] };
+
+const TOL = EQUIVALENCE_TOLERANCE_SECONDS;
+const MAX_MISMATCHES = 10;
+const MAX_ROTATIONS = 512;
+
+function identity(e: ScheduledEvent): string {
+  return e.kind === "kit" ? `k|${e.piece}|${e.articulation ?? ""}|${e.velocity}` : `n|${e.pitch}|${e.velocity}`;
+}
+
+interface Outcome {
+  matched: number;
+  unmatchedA: ScheduledEvent[];
+  unmatchedB: ScheduledEvent[];
+  complete: boolean;
+}
+
+/**
+ * Walk two time-sorted event lists (b moved back by `shift`), matching events inside each cluster of
+ * simultaneous onsets. Stops collecting mismatches after `keep`; with `keep` 0 it stops at the first one.
+ */
+function matchSorted(a: ScheduledEvent[], b: ScheduledEvent[], bTimes: Float64Array, keep: number): Outcome {
+  const out: Outcome = { matched: 0, unmatchedA: [], unmatchedB: [], complete: true };
+  let i = 0;
+  let j = 0;
+  const miss = (side: "a" | "b", e: ScheduledEvent) => {
+    out.complete = false;
+    const list = side === "a" ? out.unmatchedA : out.unmatchedB;
+    if (out.unmatchedA.length + out.unmatchedB.length < keep) list.push(e);
+  };
+  while (i < a.length || j < b.length) {
+    if (keep === 0 && !out.complete) return out;
+    const ta = i < a.length ? a[i]!.time : Infinity;
+    const tb = j < b.length ? bTimes[j]! : Infinity;
+    const t = Math.min(ta, tb);
+    let i2 = i;
+    while (i2 < a.length && a[i2]!.time <= t + TOL) i2++;
+    let j2 = j;
+    while (j2 < b.length && bTimes[j2]! <= t + TOL) j2++;
+    if (i2 - i === 1 && j2 - j === 1) {
+      const x = a[i]!;
+      const y = b[j]!;
+      if (identity(x) === identity(y) && (x.kind === "kit" || Math.abs(x.duration - y.duration) <= TOL)) out.matched++;
+      else {
+        miss("a", x);
+        miss("b", y);
+      }
+    } else {
+      const ca = a.slice(i, i2);
+      const cb = b.slice(j, j2);
+      const used = new Array<boolean>(cb.length).fill(false);
+      for (const x of ca) {
+        const id = identity(x);
+        const k = cb.findIndex((y, n) => !used[n] && identity(y) === id && (x.kind === "kit" || Math.abs(x.duration - y.duration) <= TOL));
+        if (k >= 0) {
+          used[k] = true;
+          out.matched++;
+        } else miss("a", x);
+      }
+      cb.forEach((y, n) => used[n] || miss("b", y));
+    }
+    i = i2;
+    j = j2;
+  }
+  return out;
+}
+
+function shifted(b: ScheduledEvent[], shift: number): Float64Array {
+  const t = new Float64Array(b.length);
+  for (let k = 0; k < b.length; k++) t[k] = b[k]!.time - shift;
+  return t;
+}
+
+/** Closest rational with a denominator up to 100,000 (continued fractions). */
+function toRational(x: number): Rational {
+  if (!Number.isFinite(x)) return "0";
+  const sign = x < 0 ? -1 : 1;
+  let v = Math.abs(x);
+  let [h0, h1, k0, k1] = [0, 1, 1, 0];
+  for (let n = 0; n < 40; n++) {
+    const a = Math.floor(v);
+    const h2 = a * h1 + h0;
+    const k2 = a * k1 + k0;
+    if (k2 > 100_000) break;
+    [h0, h1, k0, k1] = [h1, h2, k1, k2];
+    if (Math.abs(Math.abs(x) - h1 / k1) < 1e-12) break;
+    v = 1 / (v - a);
+    if (!Number.isFinite(v)) break;
+  }
+  return fmt(new Fraction(sign * h1, k1 || 1));
+}
+
+function isLoop(doc: GrooveDocument): boolean {
+  return doc.sections.length <= 1;
+}
+
+/** One pass of a loop's written bars, with notes held across the seam joined and times folded into [0, T). */
+function cycle(doc: GrooveDocument): { events: ScheduledEvent[]; length: number } {
+  const events = compileSchedule(doc, Array.from({ length: doc.bars }, (_, k) => k)).map((e) => ({ ...e }));
+  const length = barLength(doc.meter).mul(doc.bars).valueOf() * secondsPerWholeNote(doc.tempo);
+  const gone = new Set<ScheduledEvent>();
+  for (const e of events) {
+    if (!e.tiedFromEnd) continue;
+    const partner = events.find((p) => p !== e && !gone.has(p) && p.kind === "keys" && p.pitch === e.pitch && p.velocity === e.velocity && Math.abs(p.time + p.duration - length) <= TOL);
+    if (partner) {
+      partner.duration += e.duration;
+      gone.add(e);
+    }
+  }
+  return { events: events.filter((e) => !gone.has(e)), length };
+}
+
+function rotated(events: ScheduledEvent[], shift: number, length: number): ScheduledEvent[] {
+  return events
+    .map((e) => {
+      let t = e.time - shift;
+      t = t - Math.floor(t / length) * length;
+      if (length - t <= TOL) t = 0;
+      return { ...e, time: t };
+    })
+    .sort((x, y) => x.time - y.time);
+}
+
+/**
+ * Compare two grooves by their sound (see the module comment).
+ * @example compareGrooves(doc, doubleTime(doc)) // { verdict: "identical", matched: … }
+ * @example compareGrooves(doc, displace(doc, "1/8", "pad")) // { verdict: "offset", offsetNotes: "1/8", … }
+ */
+export function compareGrooves(a: GrooveDocument, b: GrooveDocument): Equivalence {
+  const ea = compileSchedule(a);
+  const eb = compileSchedule(b);
+  const plain = matchSorted(ea, eb, shifted(eb, 0), MAX_MISMATCHES);
+  if (plain.complete) return { verdict: "identical", matched: plain.matched };
+  const spwA = secondsPerWholeNote(a.tempo);
+  const offset = (raw: number, rotation: boolean, matched: number): Equivalence => {
+    const seconds = Math.round(raw * 1e9) / 1e9; // float noise off: nanoseconds are far inside the tolerance
+    return {
+    verdict: "offset",
+    offsetSeconds: seconds,
+    offsetMs: seconds * 1000,
+    offsetNotes: toRational(seconds / spwA),
+    rotation,
+    matched,
+    };
+  };
+
+  let best = plain;
+  if (ea.length > 0 && eb.length > 0 && ea.length === eb.length) {
+    const shift = eb[0]!.time - ea[0]!.time;
+    const moved = matchSorted(ea, eb, shifted(eb, shift), MAX_MISMATCHES);
+    if (moved.complete) return offset(shift, false, moved.matched);
+    if (moved.matched > best.matched) best = moved;
+  }
+
+  if (isLoop(a) && isLoop(b) && playOrder(a).length * a.bars > 0) {
+    const ca = cycle(a);
+    const cb = cycle(b);
+    const passesA = playOrder(a).length / a.bars;
+    const passesB = playOrder(b).length / b.bars;
+    if (Math.abs(ca.length - cb.length) <= TOL && passesA === passesB && ca.events.length === cb.events.length && cb.events.length > 0) {
+      const first = cb.events[0]!;
+      const id = identity(first);
+      const shifts = [...new Set(ca.events.filter((e) => identity(e) === id).map((e) => first.time - e.time))]
+        .map((s) => s - Math.floor(s / ca.length) * ca.length)
+        .sort((x, y) => Math.min(x, ca.length - x) - Math.min(y, ca.length - y))
+        .slice(0, MAX_ROTATIONS);
+      for (const s of shifts) {
+        const rb = rotated(cb.events, s, ca.length);
+        const r = matchSorted(ca.events, rb, shifted(rb, 0), 0);
+        if (r.complete) {
+          const signed = s > ca.length / 2 + TOL ? s - ca.length : s;
+          return offset(Math.abs(signed) <= TOL ? 0 : signed, true, r.matched);
+        }
+      }
+    }
+  }
+
+  const describe = (side: "a" | "b", e: ScheduledEvent): Mismatch => {
+    const pos = describePosition(side === "a" ? a : b, e.at);
+    const what = e.kind === "kit" ? `${e.piece}${e.dynamic && e.dynamic !== "normal" ? ` (${e.dynamic})` : ""}${e.articulation ? ` ${e.articulation}` : ""}` : `pitch ${e.pitch} (velocity ${e.velocity})`;
+    const m: Mismatch = { side, time: e.time, bar: pos.bar, beat: pos.beat, pass: e.pass, kind: e.kind, velocity: e.velocity, text: `${pos.text}: ${what} only in ${side}` };
+    if (e.piece) m.piece = e.piece;
+    if (e.pitch !== undefined) m.pitch = e.pitch;
+    return m;
+  };
+  const mismatches = [...best.unmatchedA.map((e) => describe("a", e)), ...best.unmatchedB.map((e) => describe("b", e))]
+    .sort((x, y) => x.time - y.time || (x.side < y.side ? -1 : 1))
+    .slice(0, MAX_MISMATCHES);
+  return { verdict: "different", matched: best.matched, mismatches };
+}
