@@ -157,9 +157,11 @@ export interface NotationScore {
     /** The same as a written value, for a metronome mark (null if it is not a plain or dotted value). */
     readonly beatNoteValue: NoteValue | null;
   };
+  /** Swing to print as a marking ("swung eighths" at a ratio), or null when the groove is straight. */
+  readonly swing: { readonly unit: Rational; readonly ratio: number } | null;
   /** Bars in written order (repeats are not expanded). */
   readonly bars: readonly NotationBar[];
-  /** Song form; one section covering every bar once when the document has none. */
+  /** Song form as in the document (empty when the groove is a single loop without sections). */
   readonly sections: readonly NotationSection[];
   readonly hasKeys: boolean;
 }
