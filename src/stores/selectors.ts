@@ -10,7 +10,8 @@ import {
   type KitHit,
   type KitPieceId,
 } from "../lib/rhythm";
-import { atOfStep, describeAt, locate, stepCount } from "../lib/rhythm/editing";
+import { beatStarts, describePosition } from "../lib/rhythm";
+import { atOfStep, describeAt, stepCount } from "../lib/rhythm/editing";
 
 export interface GridColumn {
   /** 0-based column (grid step) index in the whole groove. */
@@ -18,54 +19,40 @@ export interface GridColumn {
   at: string;
   /** 0-based bar. */
   bar: number;
-  /** 0-based beat inside the bar. */
+  /** 0-based counted beat inside the bar (dotted quarters in 6/8, the groups of 7/8). */
   beat: number;
   /** First step of a bar. */
   barStart: boolean;
-  /** Step that falls exactly on a beat. */
+  /** Step on a counted beat. */
   beatStart: boolean;
-  /** Step on the start of a beat group (grouping such as 2+2+3), or on a beat when there is no grouping. */
-  groupStart: boolean;
-  /** Short count shown above the column: the beat number on a beat, a counting syllable or a dot otherwise. */
+  /** Step on a beat unit that is not a counted beat (the eighths inside a 6/8 beat): a lighter line. */
+  unitStart: boolean;
+  /** Short count shown above the column: the beat number, a counting syllable ("e", "&", "a", "trip", "let") or a dot. */
   count: string;
 }
 
-/** Counting syllables per steps-in-a-beat (common practice: "1 e & a" for sixteenths, "1 & a" for triplets). */
-const SYLLABLES: Record<number, readonly string[]> = {
-  1: [""],
-  2: ["", "&"],
-  3: ["", "&", "a"],
-  4: ["", "e", "&", "a"],
-};
+const SYLLABLE: Record<string, string> = { and: "&", e: "e", a: "a", trip: "trip", let: "let" };
 
 /**
- * Every grid column of the groove with its bar, beat and line kind.
+ * Every grid column of the groove with its bar, beat and line kind, counted as the core counts
+ * (`describePosition`, `beatStarts`).
  * @example gridColumns(emptyGroove()).filter((c) => c.beatStart).length // 4
  */
 export function gridColumns(doc: Pick<GrooveDocument, "meter" | "grid" | "bars">): GridColumn[] {
   const n = stepCount(doc);
-  const beatLen = q(1).div(doc.meter.beatUnit);
   const bar = barLength(doc.meter);
-  const perBeat = beatLen.div(q(doc.grid.step));
-  const stepsPerBeat = perBeat.d === 1n ? Number(perBeat.valueOf()) : 0;
-  const syll = SYLLABLES[stepsPerBeat];
-  const groupStarts = new Set<number>();
-  let acc = 0;
-  for (const g of doc.meter.grouping ?? []) {
-    groupStarts.add(acc);
-    acc += g;
-  }
+  const unit = q(1).div(doc.meter.beatUnit);
+  const starts = beatStarts(doc.meter);
   const cols: GridColumn[] = [];
   for (let col = 0; col < n; col++) {
     const at = atOfStep(doc, col);
-    const l = locate(doc, at);
-    const beatStart = l.withinBeat.n === 0n;
-    const barStart = q(at).div(bar).d === 1n;
-    const groupStart = barStart || (beatStart && (doc.meter.grouping ? groupStarts.has(l.beat - 1) : true));
-    let count = "·";
-    if (beatStart) count = String(l.beat);
-    else if (syll && l.step > 0) count = syll[l.step - 1] || "·";
-    cols.push({ col, at, bar: l.bar - 1, beat: l.beat - 1, barStart, beatStart, groupStart, count });
+    const p = q(at);
+    const inBar = p.sub(bar.mul(p.div(bar).floor()));
+    const words = describePosition(doc, at);
+    const beatStart = starts.some((s) => s.equals(inBar));
+    const unitStart = !beatStart && inBar.div(unit).d === 1n;
+    const count = beatStart ? String(words.beat) : (words.sub && SYLLABLE[words.sub]) || "·";
+    cols.push({ col, at, bar: words.bar - 1, beat: words.beat - 1, barStart: inBar.n === 0n, beatStart, unitStart, count });
   }
   return cols;
 }
@@ -82,7 +69,7 @@ export function hitState(hit: KitHit | undefined): string {
  * Accessible name of a kit cell: piece, bar, beat (and step), state.
  * @example kitCellLabel(doc, "snare", "1/4", hit) // "Snare, bar 1, beat 2: accent"
  */
-export function kitCellLabel(doc: Pick<GrooveDocument, "meter" | "grid">, piece: KitPieceId, at: string, hit: KitHit | undefined): string {
+export function kitCellLabel(doc: Pick<GrooveDocument, "meter">, piece: KitPieceId, at: string, hit: KitHit | undefined): string {
   return `${KIT_PIECES[piece].name}, ${describeAt(doc, at)}: ${hitState(hit)}`;
 }
 

@@ -7,7 +7,7 @@
  * with where it was and why, and `adjusted` for notes that were kept but shortened or snapped.
  *
  * Positions are rational whole-note strings, as in the document. Bars are 0-based here; labels for people
- * (see `locate` / `describeAt`) are 1-based.
+ * (see `describeAt`) are 1-based.
  */
 import type { Articulation, Dynamic, KitPieceId } from "./kit";
 import { DYNAMICS, KIT_PIECES, KIT_ROW_ORDER } from "./kit";
@@ -26,6 +26,7 @@ import {
   type Swing,
   type Tempo,
 } from "./document";
+import { describePosition } from "./describe-position";
 import { Fraction, fmt, q, type Rational, type RationalInput } from "./rational";
 
 /** A kit hit that an edit could not keep. */
@@ -109,48 +110,12 @@ export function stepOfAt(doc: Pick<GrooveDocument, "grid">, at: RationalInput): 
   return q(at).div(q(doc.grid.step)).valueOf();
 }
 
-export interface Location {
-  /** 1-based bar number. */
-  bar: number;
-  /** 1-based beat number in the bar (beats of the meter's beat unit). */
-  beat: number;
-  /** 1-based grid step within the beat when the position is on a step that starts inside the beat, else 0. */
-  step: number;
-  /** Offset inside the beat as a fraction of the beat (0 on the beat). */
-  withinBeat: Fraction;
-}
-
 /**
- * Bar, beat and step of a position, 1-based, for people.
- * @example locate(emptyGroove(), "5/16") // { bar: 1, beat: 2, step: 2, ... }
- */
-export function locate(doc: Pick<GrooveDocument, "meter" | "grid">, at: RationalInput): Location {
-  const bar = barLength(doc.meter);
-  const beatLen = new Fraction(1, doc.meter.beatUnit);
-  const pos = q(at);
-  const barIndex = Number(pos.div(bar).floor().valueOf());
-  const inBar = pos.sub(bar.mul(barIndex));
-  const beatIndex = Number(inBar.div(beatLen).floor().valueOf());
-  const inBeat = inBar.sub(beatLen.mul(beatIndex));
-  const steps = inBeat.div(q(doc.grid.step));
-  return {
-    bar: barIndex + 1,
-    beat: beatIndex + 1,
-    step: steps.d === 1n ? Number(steps.valueOf()) + 1 : 0,
-    withinBeat: inBeat.div(beatLen),
-  };
-}
-
-/**
- * A short description of a position: "bar 2, beat 3", "bar 2, beat 3, step 2", or "bar 1, beat 1 + 2/3".
+ * Where a position is, for people: the core's counting words ("bar 2, beat 3 and").
  * @example describeAt(emptyGroove(), "1/4") // "bar 1, beat 2"
  */
-export function describeAt(doc: Pick<GrooveDocument, "meter" | "grid">, at: RationalInput): string {
-  const l = locate(doc, at);
-  const head = `bar ${l.bar}, beat ${l.beat}`;
-  if (l.withinBeat.n === 0n) return head;
-  if (l.step > 0) return `${head}, step ${l.step}`;
-  return `${head} + ${l.withinBeat.toFraction()}`;
+export function describeAt(doc: Pick<GrooveDocument, "meter">, at: RationalInput): string {
+  return describePosition(doc, at).text;
 }
 
 function requireOnGrid(doc: GrooveDocument, at: RationalInput): Rational {
@@ -593,7 +558,7 @@ export function pasteBars(doc: GrooveDocument, clip: BarClip, atBar: number): Ed
   const replaced = PASTED_OVER;
   const clipWhere = (p: Fraction) => {
     const i = Number(p.div(clipBar).floor().valueOf());
-    return `copied bar ${i + 1}, ${describeAt({ meter: clip.meter, grid: { step: clip.step } }, p.sub(clipBar.mul(i))).replace(/^bar 1, /, "")}`;
+    return `copied bar ${i + 1}, ${describeAt(clip, p.sub(clipBar.mul(i))).replace(/^bar 1, /, "")}`;
   };
   /** Target position of a clip offset, or a reason it cannot land. */
   const land = (off: Fraction): Fraction | string => {

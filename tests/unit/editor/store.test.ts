@@ -179,14 +179,19 @@ describe("selectors", () => {
     expect(cols.slice(0, 5).map((c) => c.count)).toEqual(["1", "e", "&", "a", "2"]);
     expect(cols.filter((c) => c.barStart).map((c) => c.col)).toEqual([0, 16]);
     expect(cols.filter((c) => c.beatStart).length).toBe(8);
+    // 7/8 as 2+2+3 is counted in three beats; 6/8 in two dotted-quarter beats with lighter eighth lines.
     const seven = gridColumns({ meter: { beatsPerBar: 7, beatUnit: 8, grouping: [2, 2, 3] }, grid: { step: "1/8" }, bars: 1 });
-    expect(seven.filter((c) => c.groupStart).map((c) => c.col)).toEqual([0, 2, 4]);
+    expect(seven.filter((c) => c.beatStart).map((c) => c.col)).toEqual([0, 2, 4]);
+    const six = gridColumns({ meter: { beatsPerBar: 6, beatUnit: 8 }, grid: { step: "1/16" }, bars: 1 });
+    expect(six.filter((c) => c.beatStart).map((c) => c.col)).toEqual([0, 6]);
+    expect(six.filter((c) => c.unitStart).map((c) => c.col)).toEqual([2, 4, 8, 10]);
+    expect(six.slice(0, 3).map((c) => c.count)).toEqual(["1", "·", "&"]);
   });
 
   it("names cells for screen readers with piece, bar, beat and state", () => {
     const doc = emptyGroove();
     expect(kitCellLabel(doc, "snare", "1/4", { at: "1/4", dynamic: "accent", articulation: "flam" })).toBe("Snare, bar 1, beat 2: accent, flam");
-    expect(kitCellLabel(doc, "kick", "3/16", undefined)).toBe("Kick, bar 1, beat 1, step 4: empty");
+    expect(kitCellLabel(doc, "kick", "3/16", undefined)).toBe("Kick, bar 1, beat 1 a: empty");
   });
 
   it("names pitches with middle C = C4 (MIDI 60, scientific pitch notation) and widens the keys range to fit notes", () => {

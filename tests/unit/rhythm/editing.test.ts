@@ -65,14 +65,11 @@ describe("grid geometry", () => {
     expect(atOfStep(emptyGroove(), 4)).toBe(tonal("quarter"));
   });
 
-  it("names bar, beat and step for people", () => {
+  it("names positions with the counting words musicians use (common practice: 1 e and a)", () => {
     const doc = emptyGroove();
     expect(describeAt(doc, "0")).toBe("bar 1, beat 1");
-    expect(describeAt(doc, "1/4")).toBe("bar 1, beat 2");
-    expect(describeAt(doc, "7/16")).toBe("bar 1, beat 2, step 4");
-    expect(describeAt({ ...doc, grid: { step: "1/12" } }, "1/12")).toBe("bar 1, beat 1, step 2");
-    // 6/8 on an eighth-triplet grid: beat 2 starts at 1/8, off the grid; 1/6 lies a third into it.
-    expect(describeAt({ meter: { beatsPerBar: 6, beatUnit: 8 }, grid: { step: "1/12" } }, "1/6")).toBe("bar 1, beat 2 + 1/3");
+    expect(describeAt(doc, "5/4")).toBe("bar 2, beat 2");
+    expect(describeAt(doc, "7/16")).toBe("bar 1, beat 2 a");
   });
 });
 
@@ -245,7 +242,7 @@ describe("bars", () => {
     valid(doc);
     expect(dropped.map((d) => (d.kind === "hit" ? `${d.piece}@${d.where}` : ""))).toEqual([
       "hihat-closed@copied bar 1, beat 4",
-      "hihat-closed@copied bar 1, beat 4, step 3",
+      "hihat-closed@copied bar 1, beat 4 and",
       "snare@copied bar 1, beat 4",
     ]);
   });
@@ -297,7 +294,7 @@ describe("meter, grid, tempo and swing changes", () => {
     expect(t.grid.step).toBe("1/12");
     // Quarter-note beats lie on both grids; the eighth off-beats (1/8, 3/8…) and the ghost at 7/16 do not.
     expect(dropped.filter((d) => d.kind === "hit" && d.piece === "hihat-closed")).toHaveLength(8);
-    expect(dropped.find((d) => d.kind === "hit" && d.piece === "snare")!.where).toBe("bar 1, beat 2, step 4");
+    expect(dropped.find((d) => d.kind === "hit" && d.piece === "snare")!.where).toBe("bar 1, beat 2 a");
     expect(adjusted).toEqual([]); // half notes are six triplet eighths
     doc = addKeyNote(t, { at: "1/4", pitch: 72, duration: "1/12" });
     const back = changeGrid(doc, "1/16");
