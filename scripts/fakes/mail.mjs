@@ -89,7 +89,8 @@ export async function start({ mode = "dev", port, dir } = {}) {
   server.on("error", () => {});
 
   return {
-    env: { SMTP_URL: `smtp://${HOST}:${smtpPort}`, MAIL_CAPTURE_DIR: folder },
+    // TACTUS_DEV_MAILBOX: mail goes nowhere but here, so the app's development mailbox page is the way to read it.
+    env: { SMTP_URL: `smtp://${HOST}:${smtpPort}`, MAIL_CAPTURE_DIR: folder, TACTUS_DEV_MAILBOX: "1" },
     describe: `smtp://${HOST}:${smtpPort}, messages in ${folder.startsWith(ROOT) ? path.relative(ROOT, folder) : folder} (${readdirSync(folder).length} stored)`,
     stop: () => new Promise((resolve) => server.close(() => resolve())),
   };

@@ -1,0 +1,448 @@
+// The groove library: list, create, read, update details, soft delete and restore (30 days), fork.
+// Every access goes through `authorizeGroove`, which applies the rules of roles.ts.
+import { and, asc, desc, eq, ilike, isNotNull, isNull, lt, or, sql, type SQL } from "drizzle-orm";
+import { alias } from "drizzle-orm/pg-core";
+import { nanoid } from "nanoid";
+import { z } from "zod";
+import type { GrooveDocument } from "../rhythm/document";
+import { audit, type Executor } from "./audit";
+import { getDb } from "./db/index";
+import { collaborators, grooveVersions, grooves, users, type Groove } from "./db/schema";
+import { can, grooveRole, refusalStatus, type Actor, type CollaboratorRole, type GrooveAction, type GrooveRole, type Visibility } from "./roles";
+import { ApiError } from "./route";
+import type { SessionUser } from "./session";
+import { likePattern } from "./user";
+import { contentHash, newVersionId, type VersionSummary } from "./versions";
+
+/** How long a deleted groove can be restored. */
+export const RESTORE_WINDOW_MS = 30 * 24 * 3600_000;
+
+export const newGrooveId = () => nanoid(12);
+
+/** Ids in URLs: nanoid's alphabet. Anything else is a 404 without a query. */
+export const idSchema = z.string().regex(/^[A-Za-z0-9_-]{1,64}$/);
+
+export const titleSchema = z.string({ message: "Enter a title." }).trim().min(1, "Enter a title.").max(120, "Use at most 120 characters.");
+export const descriptionSchema = z.string().trim().max(2000, "Use at most 2,000 characters.");
+export const tagsSchema = z
+  .array(
+    z
+      .string()
+      .trim()
+      .toLowerCase()
+      .min(1, "A tag cannot be empty.")
+      .max(32, "A tag has at most 32 characters.")
+      .regex(/^[\p{L}\p{N}][\p{L}\p{N} ._-]*$/u, "Tags use letters, digits, spaces, dots, dashes and underscores."),
+  )
+  .max(16, "Use at most 16 tags.")
+  .transform((tags) => [...new Set(tags)]);
+export const visibilitySchema = z.enum(["private", "link", "public"], { message: "Visibility is private, link or public." });
+
+/** What the API shows of a groove in lists and on its page. */
+export interface GrooveSummary {
+  id: string;
+  title: string;
+  description: string;
+  tags: string[];
+  visibility: Visibility;
+  owner: { id: string; displayName: string };
+  /** The viewer's own role, or null (a public groove seen by someone else). */
+  role: GrooveRole | null;
+  latestVersion: { id: string; number: number } | null;
+  forkedFromId: string | null;
+  createdAt: string;
+  updatedAt: string;
+  deletedAt: string | null;
+}
+
+export interface GrooveDetail extends GrooveSummary {
+  permissions: { edit: boolean; share: boolean; delete: boolean; fork: boolean; seeCollaborators: boolean };
+  latestVersion: (VersionSummary & { id: string; number: number }) | null;
+  forkedFrom: { id: string; title: string } | null;
+  /** When a deleted groove stops being restorable. */
+  restorableUntil: string | null;
+}
+
+export interface LoadedGroove {
+  groove: Groove;
+  collaboratorRole: CollaboratorRole | null;
+  role: GrooveRole | null;
+}
+
+/**
+ * Loads a groove and checks that the actor may do `action`. Throws 404 when it is missing (or deleted, or not
+ * readable by the actor), 401 for anonymous visitors, 403 when readable but not allowed. Deleted grooves are
+ * visible only with `allowDeleted` (restore, trash) to those allowed to delete them, within the restore window.
+ */
+export async function authorizeGroove(
+  actor: SessionUser | null,
+  grooveId: string,
+  action: GrooveAction,
+  db: Executor = getDb(),
+  opts: { lock?: boolean; allowDeleted?: boolean } = {},
+): Promise<LoadedGroove> {
+  if (!idSchema.safeParse(grooveId).success) throw new ApiError(404, "not_found", "No groove has this id.");
+  const base = db
+    .select({ groove: grooves, collaboratorRole: collaborators.role })
+    .from(grooves)
+    .leftJoin(collaborators, and(eq(collaborators.grooveId, grooves.id), eq(collaborators.userId, actor?.id ?? "")))
+    .where(eq(grooves.id, grooveId))
+    .limit(1);
+  const [row] = opts.lock ? await base.for("update", { of: grooves }) : await base;
+  if (!row) throw new ApiError(404, "not_found", "No groove has this id.");
+  const facts = { ownerId: row.groove.ownerId, visibility: row.groove.visibility, collaboratorRole: row.collaboratorRole };
+  const who: Actor | null = actor ? { id: actor.id, siteRole: actor.siteRole } : null;
+  if (row.groove.deletedAt) {
+    const restorable = Date.now() - row.groove.deletedAt.getTime() < RESTORE_WINDOW_MS;
+    if (!opts.allowDeleted || !restorable || !can(who, "delete", facts)) throw new ApiError(404, "not_found", "No groove has this id.");
+  }
+  if (!can(who, action, facts)) {
+    const status = refusalStatus(who, action, facts);
+    if (status === 404) throw new ApiError(404, "not_found", "No groove has this id.");
+    if (status === 401) throw new ApiError(401, "unauthenticated", "Sign in first.");
+    throw new ApiError(403, "forbidden", forbiddenMessage(action));
+  }
+  return { groove: row.groove, collaboratorRole: row.collaboratorRole, role: grooveRole(who, facts) };
+}
+
+function forbiddenMessage(action: GrooveAction): string {
+  switch (action) {
+    case "edit":
+      return "Only the owner and editors of this groove may change it.";
+    case "share":
+      return "Only the owner of this groove may change who can see and edit it.";
+    case "delete":
+      return "Only the owner of this groove may delete or restore it.";
+    default:
+      return "You may not do this with this groove.";
+  }
+}
+
+export interface ListQuery {
+  /** mine: owned; shared: where I collaborate; public: public grooves; all: everything I may see; trash: my deleted grooves. */
+  scope: "all" | "mine" | "shared" | "public" | "trash";
+  q?: string;
+  tag?: string;
+  /** An owner's user id ("me" for the viewer). */
+  owner?: string;
+  sort: "updated" | "created" | "title";
+  dir: "asc" | "desc";
+  page: number;
+  pageSize: number;
+}
+
+export interface ListResult {
+  items: GrooveSummary[];
+  total: number;
+  page: number;
+  pageSize: number;
+}
+
+const owner = alias(users, "owner");
+
+/**
+ * The library list: what the actor may see, filtered, sorted and paged.
+ * @example await listGrooves(user, { scope: "all", sort: "updated", dir: "desc", page: 1, pageSize: 25 })
+ */
+export async function listGrooves(actor: SessionUser | null, query: ListQuery): Promise<ListResult> {
+  const db = getDb();
+  const me = actor?.id ?? "";
+  const admin = actor?.siteRole === "admin";
+  const where: SQL[] = [];
+  const mine = eq(grooves.ownerId, me);
+  const shared = isNotNull(collaborators.role);
+  const isPublic = eq(grooves.visibility, "public");
+
+  if (query.scope === "trash") {
+    if (!actor) throw new ApiError(401, "unauthenticated", "Sign in first.");
+    where.push(isNotNull(grooves.deletedAt), sql`${grooves.deletedAt} > now() - interval '30 days'`);
+    if (!admin) where.push(mine);
+  } else {
+    where.push(isNull(grooves.deletedAt));
+    if (query.scope === "mine") where.push(mine);
+    else if (query.scope === "shared") where.push(shared);
+    else if (query.scope === "public") where.push(isPublic);
+    else if (!admin) where.push(actor ? or(mine, shared, isPublic)! : isPublic);
+  }
+  if (query.q) where.push(or(ilike(grooves.title, likePattern(query.q)), ilike(grooves.description, likePattern(query.q)))!);
+  if (query.tag) where.push(sql`${grooves.tags} @> array[${query.tag.trim().toLowerCase()}]::text[]`);
+  if (query.owner) where.push(eq(grooves.ownerId, query.owner === "me" ? me : query.owner));
+
+  const sortColumn = query.sort === "title" ? sql`lower(${grooves.title})` : query.sort === "created" ? grooves.createdAt : grooves.updatedAt;
+  const order = query.dir === "asc" ? asc : desc;
+  const rows = await db
+    .select({
+      groove: {
+        id: grooves.id,
+        title: grooves.title,
+        description: grooves.description,
+        tags: grooves.tags,
+        visibility: grooves.visibility,
+        ownerId: grooves.ownerId,
+        latestVersionId: grooves.latestVersionId,
+        forkedFromId: grooves.forkedFromId,
+        createdAt: grooves.createdAt,
+        updatedAt: grooves.updatedAt,
+        deletedAt: grooves.deletedAt,
+      },
+      ownerName: owner.displayName,
+      collaboratorRole: collaborators.role,
+      latestNumber: grooveVersions.number,
+      total: sql<number>`count(*) over ()`.mapWith(Number),
+    })
+    .from(grooves)
+    .innerJoin(owner, eq(owner.id, grooves.ownerId))
+    .leftJoin(collaborators, and(eq(collaborators.grooveId, grooves.id), eq(collaborators.userId, me)))
+    .leftJoin(grooveVersions, eq(grooveVersions.id, grooves.latestVersionId))
+    .where(and(...where))
+    .orderBy(order(sortColumn), order(grooves.id))
+    .limit(query.pageSize)
+    .offset((query.page - 1) * query.pageSize);
+
+  let total = rows[0]?.total ?? 0;
+  if (rows.length === 0 && query.page > 1) {
+    const [c] = await db
+      .select({ n: sql<number>`count(*)`.mapWith(Number) })
+      .from(grooves)
+      .leftJoin(collaborators, and(eq(collaborators.grooveId, grooves.id), eq(collaborators.userId, me)))
+      .where(and(...where));
+    total = c?.n ?? 0;
+  }
+  const who: Actor | null = actor ? { id: actor.id, siteRole: actor.siteRole } : null;
+  return {
+    items: rows.map((r) => ({
+      id: r.groove.id,
+      title: r.groove.title,
+      description: r.groove.description,
+      tags: r.groove.tags,
+      visibility: r.groove.visibility,
+      owner: { id: r.groove.ownerId, displayName: r.ownerName },
+      role: grooveRole(who, { ownerId: r.groove.ownerId, visibility: r.groove.visibility, collaboratorRole: r.collaboratorRole }),
+      latestVersion: r.groove.latestVersionId && r.latestNumber ? { id: r.groove.latestVersionId, number: r.latestNumber } : null,
+      forkedFromId: r.groove.forkedFromId,
+      createdAt: r.groove.createdAt.toISOString(),
+      updatedAt: r.groove.updatedAt.toISOString(),
+      deletedAt: r.groove.deletedAt?.toISOString() ?? null,
+    })),
+    total,
+    page: query.page,
+    pageSize: query.pageSize,
+  };
+}
+
+/** The groove page's data: details, the viewer's role and permissions, the latest version (without document). */
+export async function getGrooveDetail(actor: SessionUser | null, grooveId: string, opts: { allowDeleted?: boolean } = {}): Promise<GrooveDetail> {
+  const loaded = await authorizeGroove(actor, grooveId, "read", getDb(), { allowDeleted: opts.allowDeleted });
+  return describeGroove(actor, loaded);
+}
+
+async function describeGroove(actor: SessionUser | null, { groove, collaboratorRole, role }: LoadedGroove): Promise<GrooveDetail> {
+  const db = getDb();
+  const [ownerRow] = await db.select({ displayName: users.displayName }).from(users).where(eq(users.id, groove.ownerId));
+  let latest: GrooveDetail["latestVersion"] = null;
+  if (groove.latestVersionId) {
+    const [v] = await db
+      .select({
+        id: grooveVersions.id,
+        number: grooveVersions.number,
+        contentHash: grooveVersions.contentHash,
+        message: grooveVersions.message,
+        authorId: grooveVersions.authorId,
+        authorName: users.displayName,
+        parentVersionId: grooveVersions.parentVersionId,
+        createdAt: grooveVersions.createdAt,
+      })
+      .from(grooveVersions)
+      .leftJoin(users, eq(users.id, grooveVersions.authorId))
+      .where(eq(grooveVersions.id, groove.latestVersionId));
+    if (v) {
+      latest = {
+        id: v.id,
+        grooveId: groove.id,
+        number: v.number,
+        contentHash: v.contentHash,
+        message: v.message,
+        author: v.authorId ? { id: v.authorId, displayName: v.authorName ?? "" } : null,
+        parentVersionId: v.parentVersionId,
+        createdAt: v.createdAt.toISOString(),
+      };
+    }
+  }
+  let forkedFrom: GrooveDetail["forkedFrom"] = null;
+  if (groove.forkedFromId) {
+    const [f] = await db
+      .select({ id: grooves.id, title: grooves.title, ownerId: grooves.ownerId, visibility: grooves.visibility, deletedAt: grooves.deletedAt })
+      .from(grooves)
+      .where(eq(grooves.id, groove.forkedFromId));
+    // Name the source only when the viewer could open it.
+    const who: Actor | null = actor ? { id: actor.id, siteRole: actor.siteRole } : null;
+    if (f && !f.deletedAt && can(who, "read", { ownerId: f.ownerId, visibility: f.visibility })) forkedFrom = { id: f.id, title: f.title };
+  }
+  const who: Actor | null = actor ? { id: actor.id, siteRole: actor.siteRole } : null;
+  const facts = { ownerId: groove.ownerId, visibility: groove.visibility, collaboratorRole };
+  return {
+    id: groove.id,
+    title: groove.title,
+    description: groove.description,
+    tags: groove.tags,
+    visibility: groove.visibility,
+    owner: { id: groove.ownerId, displayName: ownerRow?.displayName ?? "" },
+    role,
+    permissions: {
+      edit: can(who, "edit", facts),
+      share: can(who, "share", facts),
+      delete: can(who, "delete", facts),
+      fork: can(who, "fork", facts),
+      seeCollaborators: can(who, "seeCollaborators", facts),
+    },
+    latestVersion: latest,
+    forkedFromId: groove.forkedFromId,
+    forkedFrom,
+    createdAt: groove.createdAt.toISOString(),
+    updatedAt: groove.updatedAt.toISOString(),
+    deletedAt: groove.deletedAt?.toISOString() ?? null,
+    restorableUntil: groove.deletedAt ? new Date(groove.deletedAt.getTime() + RESTORE_WINDOW_MS).toISOString() : null,
+  };
+}
+
+export interface CreateInput {
+  title: string;
+  description: string;
+  tags: string[];
+  visibility: Visibility;
+  /** Validated and normalised by parseGroove. */
+  document: GrooveDocument;
+  message: string;
+}
+
+/** Creates a groove with its first version, owned by the actor. */
+export async function createGroove(actor: SessionUser, input: CreateInput): Promise<GrooveDetail> {
+  const id = newGrooveId();
+  const versionId = newVersionId();
+  await getDb().transaction(async (tx) => {
+    const now = new Date();
+    await tx.insert(grooves).values({
+      id,
+      ownerId: actor.id,
+      title: input.title,
+      description: input.description,
+      tags: input.tags,
+      visibility: input.visibility,
+      createdAt: now,
+      updatedAt: now,
+    });
+    await tx.insert(grooveVersions).values({
+      id: versionId,
+      grooveId: id,
+      number: 1,
+      document: input.document,
+      contentHash: contentHash(input.document),
+      authorId: actor.id,
+      message: input.message,
+      createdAt: now,
+    });
+    await tx.update(grooves).set({ latestVersionId: versionId }).where(eq(grooves.id, id));
+    await audit(tx, { actorId: actor.id, action: "groove.created", grooveId: id, versionId });
+  });
+  return getGrooveDetail(actor, id);
+}
+
+export interface DetailsInput {
+  title?: string;
+  description?: string;
+  tags?: string[];
+  visibility?: Visibility;
+}
+
+/** Changes title, description, tags (owner, editor) and visibility (owner only). */
+export async function updateGrooveDetails(actor: SessionUser, grooveId: string, change: DetailsInput): Promise<GrooveDetail> {
+  await getDb().transaction(async (tx) => {
+    const { groove } = await authorizeGroove(actor, grooveId, change.visibility !== undefined ? "share" : "edit", tx, { lock: true });
+    const set: Partial<Groove> = {};
+    if (change.title !== undefined) set.title = change.title;
+    if (change.description !== undefined) set.description = change.description;
+    if (change.tags !== undefined) set.tags = change.tags;
+    if (change.visibility !== undefined) set.visibility = change.visibility;
+    if (Object.keys(set).length === 0) return;
+    await tx.update(grooves).set({ ...set, updatedAt: new Date() }).where(eq(grooves.id, grooveId));
+    const before: Record<string, unknown> = {};
+    for (const key of Object.keys(set) as (keyof typeof set)[]) before[key] = groove[key];
+    await audit(tx, { actorId: actor.id, action: "groove.updated", grooveId, details: { before, after: set } });
+  });
+  return getGrooveDetail(actor, grooveId);
+}
+
+/** Moves a groove to the trash (restorable for 30 days by its owner or an admin). */
+export async function deleteGroove(actor: SessionUser, grooveId: string): Promise<void> {
+  await getDb().transaction(async (tx) => {
+    await authorizeGroove(actor, grooveId, "delete", tx, { lock: true });
+    await tx.update(grooves).set({ deletedAt: new Date() }).where(eq(grooves.id, grooveId));
+    await audit(tx, { actorId: actor.id, action: "groove.deleted", grooveId });
+  });
+}
+
+/** Takes a groove out of the trash. 404 once the 30 days have passed. */
+export async function restoreGroove(actor: SessionUser, grooveId: string): Promise<GrooveDetail> {
+  await getDb().transaction(async (tx) => {
+    const { groove } = await authorizeGroove(actor, grooveId, "delete", tx, { lock: true, allowDeleted: true });
+    if (!groove.deletedAt) throw new ApiError(409, "not_deleted", "This groove is not in the trash.");
+    await tx.update(grooves).set({ deletedAt: null, updatedAt: new Date() }).where(eq(grooves.id, grooveId));
+    await audit(tx, { actorId: actor.id, action: "groove.restored", grooveId });
+  });
+  return getGrooveDetail(actor, grooveId);
+}
+
+/** Deletes for good the grooves whose 30 days in the trash are over (their audit rows stay). */
+export async function purgeExpiredGrooves(): Promise<number> {
+  const gone = await getDb()
+    .delete(grooves)
+    .where(and(isNotNull(grooves.deletedAt), lt(grooves.deletedAt, sql`now() - interval '30 days'`)))
+    .returning({ id: grooves.id });
+  return gone.length;
+}
+
+/**
+ * Copies a groove the actor may read into a new private groove they own, starting from the latest version
+ * (or `versionId`).
+ */
+export async function forkGroove(actor: SessionUser, grooveId: string, opts: { title?: string; versionId?: string } = {}): Promise<GrooveDetail> {
+  const { groove } = await authorizeGroove(actor, grooveId, "fork");
+  const sourceVersionId = opts.versionId ?? groove.latestVersionId;
+  const [source] = sourceVersionId
+    ? await getDb()
+        .select({ id: grooveVersions.id, number: grooveVersions.number, document: grooveVersions.document, contentHash: grooveVersions.contentHash })
+        .from(grooveVersions)
+        .where(and(eq(grooveVersions.id, sourceVersionId), eq(grooveVersions.grooveId, grooveId)))
+    : [];
+  if (!source) throw new ApiError(404, "not_found", "This groove has no version with this id.");
+  const id = newGrooveId();
+  const versionId = newVersionId();
+  await getDb().transaction(async (tx) => {
+    const now = new Date();
+    await tx.insert(grooves).values({
+      id,
+      ownerId: actor.id,
+      title: opts.title ?? `${groove.title} (fork)`.slice(0, 120),
+      description: groove.description,
+      tags: groove.tags,
+      visibility: "private",
+      forkedFromId: groove.id,
+      forkedFromVersionId: source.id,
+      createdAt: now,
+      updatedAt: now,
+    });
+    await tx.insert(grooveVersions).values({
+      id: versionId,
+      grooveId: id,
+      number: 1,
+      document: source.document,
+      contentHash: source.contentHash,
+      authorId: actor.id,
+      message: `Forked from "${groove.title}", version ${source.number}`,
+      createdAt: now,
+    });
+    await tx.update(grooves).set({ latestVersionId: versionId }).where(eq(grooves.id, id));
+    await audit(tx, { actorId: actor.id, action: "groove.forked", grooveId: id, versionId, details: { from: groove.id, fromVersion: source.id } });
+  });
+  return getGrooveDetail(actor, id);
+}

@@ -1,0 +1,191 @@
+// Groove versions: append-only and immutable. Each save names the version it was based on; a save whose base is not
+// the groove's latest version is refused with 409 and the latest version, so nothing is silently overwritten.
+//
+// Concurrency: the save runs in one transaction that first locks the groove row (SELECT … FOR UPDATE), so saves to
+// one groove are serialised; the version number is the latest's + 1, and a unique index on (groove_id, number)
+// guards the chain against gaps and duplicates even if this code were wrong.
+import { createHash } from "node:crypto";
+import canonicalize from "canonicalize";
+import { and, desc, eq, lt } from "drizzle-orm";
+import { nanoid } from "nanoid";
+import type { GrooveDocument } from "../rhythm/document";
+import { audit, type Executor } from "./audit";
+import { getDb } from "./db/index";
+import { grooveVersions, grooves, users } from "./db/schema";
+import { authorizeGroove } from "./grooves";
+import { ApiError } from "./route";
+import type { SessionUser } from "./session";
+
+/** Largest groove document a save accepts, in bytes of request body. */
+export const MAX_DOCUMENT_BYTES = 2 * 1024 * 1024;
+
+/**
+ * SHA-256 (hex) of the RFC 8785 canonical JSON of a document: equal documents have equal hashes whatever the key
+ * order they were sent in.
+ * @example contentHash({ b: 1, a: 2 }) === contentHash({ a: 2, b: 1 }) // true
+ */
+export function contentHash(document: unknown): string {
+  return createHash("sha256").update(canonicalize(document) ?? "").digest("hex");
+}
+
+export const newVersionId = () => nanoid(16);
+
+/** A version without its document (history lists). */
+export interface VersionSummary {
+  id: string;
+  grooveId: string;
+  number: number;
+  contentHash: string;
+  message: string;
+  author: { id: string; displayName: string } | null;
+  parentVersionId: string | null;
+  createdAt: string;
+}
+
+export interface VersionWithDocument extends VersionSummary {
+  document: GrooveDocument;
+}
+
+const summaryColumns = {
+  id: grooveVersions.id,
+  grooveId: grooveVersions.grooveId,
+  number: grooveVersions.number,
+  contentHash: grooveVersions.contentHash,
+  message: grooveVersions.message,
+  authorId: grooveVersions.authorId,
+  authorName: users.displayName,
+  parentVersionId: grooveVersions.parentVersionId,
+  createdAt: grooveVersions.createdAt,
+};
+
+type SummaryRow = { [K in keyof typeof summaryColumns]: (typeof summaryColumns)[K]["_"]["data"] | null };
+
+function toSummary(r: SummaryRow): VersionSummary {
+  return {
+    id: r.id!,
+    grooveId: r.grooveId!,
+    number: r.number!,
+    contentHash: r.contentHash!,
+    message: r.message ?? "",
+    author: r.authorId ? { id: r.authorId, displayName: r.authorName ?? "" } : null,
+    parentVersionId: r.parentVersionId ?? null,
+    createdAt: (r.createdAt as Date).toISOString(),
+  };
+}
+
+/** Versions of a groove, newest first (`before`: only numbers below it, for paging). */
+export async function listVersions(grooveId: string, { before, limit }: { before?: number; limit: number }): Promise<VersionSummary[]> {
+  const rows = await getDb()
+    .select(summaryColumns)
+    .from(grooveVersions)
+    .leftJoin(users, eq(users.id, grooveVersions.authorId))
+    .where(before ? and(eq(grooveVersions.grooveId, grooveId), lt(grooveVersions.number, before)) : eq(grooveVersions.grooveId, grooveId))
+    .orderBy(desc(grooveVersions.number))
+    .limit(limit);
+  return rows.map(toSummary);
+}
+
+/** One version with its document, or null. */
+export async function getVersion(grooveId: string, versionId: string, db: Executor = getDb()): Promise<VersionWithDocument | null> {
+  const [row] = await db
+    .select({ ...summaryColumns, document: grooveVersions.document })
+    .from(grooveVersions)
+    .leftJoin(users, eq(users.id, grooveVersions.authorId))
+    .where(and(eq(grooveVersions.grooveId, grooveId), eq(grooveVersions.id, versionId)))
+    .limit(1);
+  if (!row) return null;
+  return { ...toSummary(row), document: row.document as GrooveDocument };
+}
+
+export interface SaveInput {
+  /** The version the editor started from; must be the groove's latest. */
+  baseVersionId: string;
+  /** A document already validated and normalised by the core's parseGroove. */
+  document: GrooveDocument;
+  message: string;
+}
+
+/**
+ * Appends a version. Throws ApiError 409 `version_conflict` (with `latest`, the latest version and its document)
+ * when another save came first, and 401/403/404 as the roles say.
+ * @example const v = await saveVersion(user, grooveId, { baseVersionId, document: parsed.doc, message: "Ghost notes" });
+ */
+export async function saveVersion(
+  actor: SessionUser,
+  grooveId: string,
+  input: SaveInput,
+  meta: { action: "version.saved" | "version.restored"; restoredFrom?: { id: string; number: number } } = { action: "version.saved" },
+): Promise<VersionWithDocument> {
+  const hash = contentHash(input.document);
+  return getDb().transaction(async (tx) => {
+    await authorizeGroove(actor, grooveId, "edit", tx, { lock: true });
+    const [g] = await tx.select({ latestVersionId: grooves.latestVersionId }).from(grooves).where(eq(grooves.id, grooveId));
+    const latestId = g?.latestVersionId ?? null;
+    if (latestId !== input.baseVersionId) {
+      const latest = latestId ? await getVersion(grooveId, latestId, tx) : null;
+      const message = latest
+        ? `Version ${latest.number} was saved by ${latest.author?.displayName ?? "someone"} after the version you started from: compare, then save again on top of it.`
+        : "The version you started from is not this groove's latest version.";
+      throw new ApiError(409, "version_conflict", message, { baseVersionId: ["not the latest version"] }, { latest });
+    }
+    let number = 1;
+    if (latestId) {
+      const [prev] = await tx.select({ number: grooveVersions.number }).from(grooveVersions).where(eq(grooveVersions.id, latestId));
+      number = (prev?.number ?? 0) + 1;
+    }
+    const id = newVersionId();
+    const now = new Date();
+    await tx.insert(grooveVersions).values({
+      id,
+      grooveId,
+      number,
+      document: input.document,
+      contentHash: hash,
+      authorId: actor.id,
+      message: input.message,
+      parentVersionId: latestId,
+      createdAt: now,
+    });
+    await tx.update(grooves).set({ latestVersionId: id, updatedAt: now }).where(eq(grooves.id, grooveId));
+    await audit(tx, {
+      actorId: actor.id,
+      action: meta.action,
+      grooveId,
+      versionId: id,
+      details: { number, contentHash: hash, ...(meta.restoredFrom ? { restoredFrom: meta.restoredFrom } : {}) },
+    });
+    return {
+      id,
+      grooveId,
+      number,
+      contentHash: hash,
+      message: input.message,
+      author: { id: actor.id, displayName: actor.displayName },
+      parentVersionId: latestId,
+      createdAt: now.toISOString(),
+      document: input.document,
+    };
+  });
+}
+
+/**
+ * Restores an old version as a new one (history is never rewritten): the old document saved on top of `baseVersionId`.
+ * @example await restoreVersion(user, grooveId, oldVersionId, latestVersionId);
+ */
+export async function restoreVersion(
+  actor: SessionUser,
+  grooveId: string,
+  versionId: string,
+  baseVersionId: string,
+  message?: string,
+): Promise<VersionWithDocument> {
+  await authorizeGroove(actor, grooveId, "edit");
+  const old = await getVersion(grooveId, versionId);
+  if (!old) throw new ApiError(404, "not_found", "This groove has no version with this id.");
+  return saveVersion(
+    actor,
+    grooveId,
+    { baseVersionId, document: old.document, message: message?.trim() || `Restored version ${old.number}` },
+    { action: "version.restored", restoredFrom: { id: old.id, number: old.number } },
+  );
+}
