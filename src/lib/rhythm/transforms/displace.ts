@@ -55,9 +55,10 @@ export function displace(doc: GrooveDocument, by: RationalInput, mode: DisplaceM
  * (`writeOutRepeats`), since moved material crosses their boundaries. A pickup bar becomes a "Pickup" section
  * when the groove has sections; bars added at the end join the last section.
  *
- * Throws a RhythmError when `by` is not on the grid, when swing would change (with swing on, `by` must be a
- * whole number of swing pairs and the pairs must tile the bar), when "rotate" meets a song form, or when two
- * notes of the same pitch would start at the same place.
+ * Throws a RhythmError when `by` is not on the grid (see `setGrid` to refine it first), when swing would
+ * change (with swing on, `by` must be a whole number of swing pairs and the pairs must tile the bar), when
+ * "rotate" meets a song form, or when a rotation would start two notes of the same pitch at one place
+ * (only possible when notes of one pitch overlap). "trim" resolves that case by keeping the longer note.
  *
  * The output is normalised (hits and notes sorted as `normalizeGroove` does).
  */
@@ -198,6 +199,16 @@ function shiftTimeline(doc: GrooveDocument, x: number, codec: TickCodec, mode: "
     if (from !== s || to !== e)
       dropped.notes.push({ pitch: n.note.pitch, at: n.note.at, duration: n.note.duration, kept: codec.fromTicks(to - from) });
     out.push({ s: from, d: to - from, note: n.note });
+  }
+  if (mode === "trim") {
+    // Two overlapping notes of one pitch can both be cut back to the start: keep the longer one.
+    out.sort((a, b) => a.s - b.s || a.note.pitch - b.note.pitch || b.d - a.d);
+    for (let i = out.length - 1; i > 0; i--) {
+      const [prev, cur] = [out[i - 1]!, out[i]!];
+      if (prev.s !== cur.s || prev.note.pitch !== cur.note.pitch) continue;
+      dropped.notes.push({ pitch: cur.note.pitch, at: cur.note.at, duration: cur.note.duration });
+      out.splice(i, 1);
+    }
   }
   dropped.hits.sort((a, b) => q(a.at).compare(q(b.at)) || (pieceOrder.get(a.piece) ?? 0) - (pieceOrder.get(b.piece) ?? 0));
 

@@ -2,3 +2,4 @@
 export * from "./rescale";
 export * from "./displace";
 export * from "./rebar";
+export * from "./grid";
