@@ -155,7 +155,7 @@ export function grooveArb(options: GrooveArbOptions = {}): fc.Arbitrary<GrooveDo
           grid: { step: grid },
           swing: swing ?? { unit: "1/8", ratio: 0.5 },
           bars,
-          sections,
+          sections: [...sections],
           kit: { lanes: lanes as GrooveDocumentInput["kit"]["lanes"] },
           keys: { notes, splitPitch },
         };
