@@ -199,9 +199,11 @@ interface Slice {
  */
 function keysSlices(notes: readonly KeyNote[], r0: number, r1: number, barTicks: number): Slice[] {
   const relevant: KeyNote[] = [];
+  const struckAtEnd = new Set<number>();
   for (const n of notes) {
-    if (n.s >= r1) break;
-    if (n.e > r0) relevant.push(n);
+    if (n.s > r1) break;
+    if (n.s === r1) struckAtEnd.add(n.midi);
+    else if (n.e > r0) relevant.push(n);
   }
   const cuts = new Set<number>();
   for (let t = r0; t <= r1; t += barTicks) cuts.add(t);
@@ -225,7 +227,8 @@ function keysSlices(notes: readonly KeyNote[], r0: number, r1: number, barTicks:
     }
     raw.push({ s: t, e: pts[i + 1]!, heads });
   }
-  const beyond = new Set(relevant.filter((n) => n.e > r1).map((n) => n.midi));
+  // Held past the range and not struck again right at its end (as the whole-groove spelling would see it).
+  const beyond = new Set(relevant.filter((n) => n.e > r1 && !struckAtEnd.has(n.midi)).map((n) => n.midi));
   return raw.map((sl, i) => {
     const next = raw[i + 1];
     const heads = [...sl.heads.entries()]
