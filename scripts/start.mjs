@@ -3,7 +3,7 @@
 // `npm run dev` (--dev): the same set-up, then `astro dev` with hot reload against the same database.
 // Running it again while Tactus is already serving on the port is harmless: it says so and exits.
 import path from "node:path";
-import { HOST, Fatal, ROOT, baseEnv, bin, ensureDependencies, portAnswers, portFromEnv, runInherit, runMain, runTs, say } from "./lib/common.mjs";
+import { HOST, Fatal, ROOT, baseEnv, bin, ensureDependencies, onStopRequest, portAnswers, portFromEnv, runInherit, runMain, runTs, say } from "./lib/common.mjs";
 
 const dev = process.argv.includes("--dev");
 
@@ -64,16 +64,13 @@ runMain(async () => {
   say(`Tactus is serving at ${url}  (ready in ${seconds} s; Ctrl+C stops the app, \`npm run db:stop\` stops the database)`);
 });
 
-/** Forwards Ctrl+C / SIGTERM to the server, stops the fakes, and exits with the server's code. */
+/** Stops the server on Ctrl+C, SIGTERM or when npm goes away, then stops the fakes and exits with the server's code. */
 function installStop(child, stopFakes, stopChild) {
   let stopping = false;
-  const stop = async () => {
-    if (stopping) return;
+  onStopRequest(async () => {
     stopping = true;
     await stopChild(child);
-  };
-  process.on("SIGINT", stop);
-  process.on("SIGTERM", stop);
+  });
   child.on("exit", async (code, signal) => {
     await stopFakes();
     process.exit(stopping ? 0 : (code ?? (signal ? 1 : 0)));

@@ -5,7 +5,7 @@
 import { closeSync, existsSync, mkdirSync, openSync, readFileSync } from "node:fs";
 import path from "node:path";
 import {
-  Fatal, HOST, ROOT, aptInstall, baseEnv, bin, canApt, ensureDependencies, portFree, portFromEnv, runInherit, runMain, runTs, say,
+  Fatal, HOST, ROOT, aptInstall, baseEnv, bin, canApt, ensureDependencies, onStopRequest, portFree, portFromEnv, runInherit, runMain, runTs, say,
 } from "./lib/common.mjs";
 
 /** Debian's chromium (CHROMIUM_PATH overrides), installed with apt-get when missing and we are root. */
@@ -37,7 +37,22 @@ runMain(async () => {
   const cluster = await ensureCluster("test");
   let app;
   let fakes;
+  let vitest;
   let exitCode = 1;
+  let cleaning;
+  const cleanUp = () =>
+    (cleaning ??= (async () => {
+      await stopChild(vitest);
+      await stopChild(app);
+      await fakes?.stopAll();
+      if (cluster.startedNow && !process.env.TACTUS_KEEP_TEST_DB) stopCluster("test");
+    })());
+  // Interrupted (Ctrl+C, SIGTERM, npm killed): stop what this run started, then leave.
+  onStopRequest(async (reason) => {
+    say(`interrupted (${reason}): stopping the test server and cluster`);
+    await cleanUp();
+    process.exit(130);
+  });
   try {
     const databaseUrl = ensureDatabase(cluster, "tactus_test", { fresh: true });
     lap(`fresh test database ${databaseUrl}`);
@@ -70,12 +85,11 @@ runMain(async () => {
     lap(`test server at ${baseUrl}`);
 
     const vitestEnv = { ...env, TEST_BASE_URL: baseUrl, TEST_SERVER_ENTRY: entry };
-    exitCode = await runInherit(bin("vitest"), ["run", ...process.argv.slice(2)], { env: vitestEnv });
+    vitest = spawnServer(bin("vitest"), ["run", ...process.argv.slice(2)], vitestEnv);
+    exitCode = await new Promise((resolve) => vitest.once("exit", (code, signal) => resolve(code ?? (signal ? 1 : 0))));
     lap(exitCode === 0 ? "all tests passed" : `tests failed (exit ${exitCode})`);
   } finally {
-    await stopChild(app);
-    await fakes?.stopAll();
-    if (cluster.startedNow && !process.env.TACTUS_KEEP_TEST_DB) stopCluster("test");
+    await cleanUp();
   }
   process.exitCode = exitCode;
 });

@@ -203,3 +203,25 @@ export function aptInstall(packages, { recommends = false } = {}) {
 export function baseEnv(extra = {}) {
   return { ...process.env, ASTRO_TELEMETRY_DISABLED: "1", ...extra };
 }
+
+/**
+ * Calls `onLoss` once when this process loses its parent (npm runs scripts through `sh -c`; when npm is killed,
+ * the shell dies without passing the signal on and this process is re-parented). Also calls it on SIGINT/SIGTERM.
+ */
+export function onStopRequest(onLoss) {
+  const parent = process.ppid;
+  let called = false;
+  const fire = (reason) => {
+    if (called) return;
+    called = true;
+    clearInterval(timer);
+    onLoss(reason);
+  };
+  const timer = setInterval(() => {
+    if (process.ppid !== parent) fire("parent gone");
+  }, 1000);
+  timer.unref();
+  process.on("SIGINT", () => fire("SIGINT"));
+  process.on("SIGTERM", () => fire("SIGTERM"));
+  process.on("SIGHUP", () => fire("SIGHUP"));
+}
