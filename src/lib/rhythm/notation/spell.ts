@@ -4,7 +4,8 @@
  * - Kit: two voices on the percussion staff, hands stems up and feet stems down (PAS, N. Weinberg,
  *   "Guide to Standardized Drumset Notation", 1998). Hits at the same position in a voice form a chord.
  *   Each hit is written as lasting until the next onset of its voice but never past the end of its beat
- *   group (drum notation writes short values, then rests), and never as long as a half note.
+ *   group (drum notation writes short values, then rests): a quarter at most, or a dotted quarter filling
+ *   a compound beat.
  * - Keys: notes at or above `splitPitch` on the treble staff, the others on the bass staff, one voice per
  *   staff. Where notes overlap, the staff is cut at every onset and release: each slice is a chord of what
  *   sounds in it, and a note that sounds on is tied into the next slice. So notes starting together with

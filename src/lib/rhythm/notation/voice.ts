@@ -48,7 +48,7 @@ export interface Written<T> {
 }
 
 export interface VoiceOptions {
-  /** Kit voice: notes are never tied, never longer than a quarter-and-a-half (shorter than a half note). */
+  /** Kit voice: notes are never tied and stay short (a quarter, or a dotted quarter filling a compound beat). */
   readonly kit: boolean;
 }
 
@@ -237,15 +237,16 @@ function writeFrame<T>(
   tup: { actual: number; normal: number; a: number; group: number } | null,
 ): void {
   const toSounding = (w: number) => (tup ? tup.a + (w * tup.normal) / tup.actual : w);
-  const half = ctx.D / 2;
+  // Kit notes stay short: a quarter at most, or a dotted quarter filling a dotted (compound) beat.
+  const kitMax = frame.kind === "units" && !tup ? (3 * ctx.D) / 8 : ctx.D / 4;
   for (const f of frags) {
     let s = f.s - a;
     const e = f.e - a;
     let noteLeft = f.note !== null;
     while (s < e) {
       const isRest = !noteLeft;
-      const cap = ctx.kit && !isRest ? half : Infinity;
-      const tv = ctx.values.find((v) => v.ticks <= e - s && v.ticks < cap && fits(frame, s, v.ticks, v.value, isRest));
+      const cap = ctx.kit && !isRest ? kitMax : Infinity;
+      const tv = ctx.values.find((v) => v.ticks <= e - s && v.ticks <= cap && fits(frame, s, v.ticks, v.value, isRest));
       if (!tv) throw new RhythmError(`internal: no written value fits at ${s}–${e} of a frame`);
       const start = toSounding(s + a);
       const end = toSounding(s + a + tv.ticks);
