@@ -6,7 +6,8 @@ import { forkGroove, idSchema, titleSchema } from "../../../../lib/server/groove
 import { json, parseBody } from "../../../../lib/server/http";
 import { idParam, requireUser, route } from "../../../../lib/server/route";
 
-const Fork = z.object({ title: titleSchema.optional(), versionId: idSchema.optional() });
+// Strict: every field is optional, so an unknown key is more likely a mistake than a wish for defaults.
+const Fork = z.strictObject({ title: titleSchema.optional(), versionId: idSchema.optional() });
 
 export const POST = route(async (ctx) => {
   const user = requireUser(ctx);
