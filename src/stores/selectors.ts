@@ -29,6 +29,8 @@ export interface GridColumn {
   unitStart: boolean;
   /** Short count shown above the column: the beat number, a counting syllable ("e", "&", "a", "trip", "let") or a dot. */
   count: string;
+  /** The position in words ("bar 2, beat 3 and"), for accessible names. */
+  where: string;
 }
 
 const SYLLABLE: Record<string, string> = { and: "&", e: "e", a: "a", trip: "trip", let: "let" };
@@ -52,7 +54,7 @@ export function gridColumns(doc: Pick<GrooveDocument, "meter" | "grid" | "bars">
     const beatStart = starts.some((s) => s.equals(inBar));
     const unitStart = !beatStart && inBar.div(unit).d === 1n;
     const count = beatStart ? String(words.beat) : (words.sub && SYLLABLE[words.sub]) || "·";
-    cols.push({ col, at, bar: words.bar - 1, beat: words.beat - 1, barStart: inBar.n === 0n, beatStart, unitStart, count });
+    cols.push({ col, at, bar: words.bar - 1, beat: words.beat - 1, barStart: inBar.n === 0n, beatStart, unitStart, count, where: words.text });
   }
   return cols;
 }

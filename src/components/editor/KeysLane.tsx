@@ -1,0 +1,199 @@
+/**
+ * The keys lane: one row per pitch (highest first), one cell per grid step. Notes have length: press and
+ * drag right to stretch; several pitches at one step make a chord. A press on a note without moving
+ * removes it. Touch: a tap adds or removes; the Longer / Shorter buttons change the note at the cursor.
+ */
+import { memo, useEffect, useMemo, useRef, type PointerEvent as ReactPointerEvent } from "react";
+import { useShallow } from "zustand/react/shallow";
+import { q, type KeyNote } from "../../lib/rhythm";
+import { keyNoteAt } from "../../lib/rhythm/editing";
+import { keysRows, pitchName, type GridColumn } from "../../stores/selectors";
+import { useActions, useEditor, useEditorStore } from "./context";
+import { lineClass } from "./KitLane";
+
+const BLACK = new Set([1, 3, 6, 8, 10]);
+
+type Part = "" | "single" | "start" | "held" | "end";
+
+const KeyCell = memo(function KeyCell(props: {
+  pitch: number;
+  col: GridColumn;
+  part: Part;
+  steps: number;
+  cursor: boolean;
+  shade: boolean;
+  label: string;
+}) {
+  const { pitch, col, part, steps, cursor, shade, label } = props;
+  const state = part === "" ? "empty" : part === "single" || part === "start" ? `note, ${steps} ${steps === 1 ? "step" : "steps"} long` : "note held";
+  return (
+    <div
+      role="gridcell"
+      data-pcell=""
+      data-pitch={pitch}
+      data-col={col.col}
+      tabIndex={cursor ? 0 : -1}
+      aria-label={`Keys ${label}, ${col.where}: ${state}`}
+      className={`tx-cell tx-kcell${lineClass(col)}${cursor ? " is-cursor" : ""}${shade ? " is-shade" : ""}`}
+    >
+      {part && <span className="tx-note" data-part={part} aria-hidden="true" />}
+    </div>
+  );
+});
+
+function KeyRow({ pitch, index, columns, shade, split }: { pitch: number; index: number; columns: GridColumn[]; shade: boolean[]; split: boolean }) {
+  const notes = useEditor(useShallow((s) => s.doc.keys.notes.filter((n) => n.pitch === pitch)));
+  const step = useEditor((s) => s.doc.grid.step);
+  const cursorCol = useEditor((s) => (s.cursor.area === "keys" && s.cursor.pitch === pitch ? s.cursor.col : -1));
+  const parts = useMemo(() => {
+    const out: { part: Part; steps: number }[] = columns.map(() => ({ part: "", steps: 0 }));
+    const st = q(step);
+    for (const n of notes as KeyNote[]) {
+      const first = Number(q(n.at).div(st).valueOf());
+      const len = Number(q(n.duration).div(st).valueOf());
+      for (let i = 0; i < len && first + i < out.length; i++)
+        out[first + i] = { part: len === 1 ? "single" : i === 0 ? "start" : i === len - 1 ? "end" : "held", steps: len };
+    }
+    return out;
+  }, [notes, step, columns]);
+  const label = pitchName(pitch);
+  const black = BLACK.has(pitch % 12);
+  return (
+    <div role="row" className={`tx-row tx-krow${black ? " is-black" : ""}${split ? " is-split" : ""}`} aria-rowindex={index + 1}>
+      <div role="rowheader" className={`tx-rowhead tx-pitch${pitch % 12 === 0 ? " is-c" : ""}`}>
+        {label}
+      </div>
+      {columns.map((c) => (
+        <KeyCell
+          key={c.col}
+          pitch={pitch}
+          col={c}
+          part={parts[c.col]!.part}
+          steps={parts[c.col]!.steps}
+          cursor={c.col === cursorCol}
+          shade={shade[c.col]!}
+          label={label}
+        />
+      ))}
+    </div>
+  );
+}
+
+export function KeysLane({ columns, shade }: { columns: GridColumn[]; shade: boolean[] }) {
+  const store = useEditorStore();
+  const actions = useActions();
+  const range = useEditor((s) => s.keysRange);
+  const rows = useEditor(useShallow((s) => keysRows(s.doc, s.keysRange)));
+  const splitPitch = useEditor((s) => s.doc.keys.splitPitch);
+  const cursor = useEditor((s) => s.cursor);
+  const cursorNote = useEditor((s) => (s.cursor.area === "keys" ? keyNoteAt(s.doc, s.cursor.pitch, columnsAt(s.doc.grid.step, s.cursor.col)) : undefined));
+  const gridRef = useRef<HTMLDivElement>(null);
+  const dragging = useRef(false);
+  const touch = useRef<{ pitch: number; col: number } | null>(null);
+
+  useEffect(() => {
+    const grid = gridRef.current;
+    if (!grid || cursor.area !== "keys" || !grid.contains(document.activeElement)) return;
+    const cell = grid.querySelector<HTMLElement>(`[data-pcell][data-pitch="${cursor.pitch}"][data-col="${cursor.col}"]`);
+    if (cell && cell !== document.activeElement) cell.focus();
+  }, [cursor]);
+
+  useEffect(() => {
+    const end = () => {
+      if (!dragging.current) return;
+      dragging.current = false;
+      actions.endGesture();
+    };
+    window.addEventListener("pointerup", end);
+    window.addEventListener("pointercancel", end);
+    return () => {
+      window.removeEventListener("pointerup", end);
+      window.removeEventListener("pointercancel", end);
+    };
+  }, [actions]);
+
+  const cellOf = (t: EventTarget | null) => (t as HTMLElement | null)?.closest?.("[data-pcell]") as HTMLElement | null;
+
+  const onPointerDown = (e: ReactPointerEvent) => {
+    const cell = cellOf(e.target);
+    if (!cell || e.button !== 0) return;
+    const pitch = Number(cell.dataset.pitch);
+    const col = Number(cell.dataset.col);
+    actions.setCursor({ area: "keys", pitch, col });
+    if (e.pointerType === "touch") {
+      touch.current = { pitch, col };
+      return;
+    }
+    e.preventDefault();
+    cell.focus();
+    performance.mark?.("tactus:edit");
+    dragging.current = true;
+    actions.beginNote(pitch, col);
+  };
+  const onPointerOver = (e: ReactPointerEvent) => {
+    if (!dragging.current) return;
+    const cell = cellOf(e.target);
+    if (cell) actions.noteTo(Number(cell.dataset.col));
+  };
+  const onPointerUp = (e: ReactPointerEvent) => {
+    const t = touch.current;
+    touch.current = null;
+    if (t && e.pointerType === "touch") actions.toggleNote(t.pitch, t.col);
+  };
+
+  const shift = (semitones: number) => {
+    const low = Math.max(0, Math.min(127 - 23, range.low + semitones));
+    actions.setKeysRange({ low, high: low + (range.high - range.low) });
+  };
+
+  const c = store.getState().cursor;
+  return (
+    <div className="tx-keys">
+      <div className="tx-keys-tools">
+        <span className="tx-keys-title">Keys</span>
+        <button type="button" className="tx-btn is-small" onClick={() => shift(12)} disabled={range.high >= 127}>
+          Octave up
+        </button>
+        <button type="button" className="tx-btn is-small" onClick={() => shift(-12)} disabled={range.low <= 0}>
+          Octave down
+        </button>
+        <button
+          type="button"
+          className="tx-btn is-small"
+          disabled={!cursorNote}
+          onClick={() => c.area === "keys" && actions.resizeNoteBy(c.pitch, c.col, 1)}
+        >
+          Longer
+        </button>
+        <button
+          type="button"
+          className="tx-btn is-small"
+          disabled={!cursorNote}
+          onClick={() => c.area === "keys" && actions.resizeNoteBy(c.pitch, c.col, -1)}
+        >
+          Shorter
+        </button>
+      </div>
+      <div
+        ref={gridRef}
+        role="grid"
+        aria-label="Keys lane: one row per pitch"
+        aria-rowcount={rows.length}
+        aria-colcount={columns.length + 1}
+        className="tx-grid tx-keysgrid"
+        onPointerDown={onPointerDown}
+        onPointerOver={onPointerOver}
+        onPointerUp={onPointerUp}
+        onPointerCancel={() => (touch.current = null)}
+      >
+        {rows.map((p, i) => (
+          <KeyRow key={p} pitch={p} index={i} columns={columns} shade={shade} split={p === splitPitch} />
+        ))}
+      </div>
+    </div>
+  );
+}
+
+function columnsAt(step: string, col: number): string {
+  return q(step).mul(col).toFraction();
+}
