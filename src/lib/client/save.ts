@@ -6,17 +6,32 @@
  *
  * Endpoints (JSON, the app's one error shape `{ error: { code, message, fields? } }`):
  *   POST /api/grooves/:id/versions  { baseVersionId, document, message }  → 201 { id, number, … }
+ *                                   409 { error, latest }: another save came first; `latest` is it, with its document
  *   POST /api/grooves               { title, document, message }          → 201 { id, latestVersion: { id } }
  */
 import type { GrooveDocument } from "../rhythm";
 
+/** The version that was saved first, sent with a 409 so the editor can show both and let the user choose. */
+export interface LatestVersion {
+  id: string;
+  number: number;
+  message: string;
+  author: { id: string; displayName: string } | null;
+  createdAt: string;
+  contentHash: string;
+  document: GrooveDocument;
+}
+
 export type SaveOutcome =
   | { ok: true; grooveId: string; versionId: string; number: number | null }
   | { ok: false; kind: "sign-in"; message: string; signInUrl: string }
-  | { ok: false; kind: "conflict" | "invalid" | "forbidden" | "not-found" | "server" | "network"; message: string; fields?: Record<string, string[]> };
+  | { ok: false; kind: "conflict"; message: string; latest: LatestVersion | null; fields?: Record<string, string[]> }
+  | { ok: false; kind: "invalid" | "forbidden" | "not-found" | "server" | "network"; message: string; fields?: Record<string, string[]> };
 
 interface ErrorBody {
   error?: { code?: string; message?: string; fields?: Record<string, string[]> };
+  /** On 409: the latest version with its document. */
+  latest?: LatestVersion | null;
 }
 
 /** Where to send a signed-out visitor, coming back to the current page. */
@@ -83,7 +98,7 @@ export async function saveVersion(
     case 404:
       return { ok: false, kind: "not-found", message: msg };
     case 409:
-      return { ok: false, kind: "conflict", message: msg };
+      return { ok: false, kind: "conflict", message: msg, latest: (data as ErrorBody | null)?.latest ?? null };
     case 400:
     case 413:
     case 422:
