@@ -16,6 +16,7 @@
 import { barLength, playOrder, type GrooveDocument } from "./document";
 import { describePosition } from "./describe-position";
 import { fmt, Fraction, type Rational } from "./rational";
+import { ARTICULATIONS, KIT_PIECE_IDS } from "./kit";
 import { compileSchedule, secondsPerWholeNote, type ScheduledEvent } from "./schedule";
 
 /** Onsets and durations closer than this are equal (1 microsecond). */
@@ -57,8 +58,20 @@ const TOL = EQUIVALENCE_TOLERANCE_SECONDS;
 const MAX_MISMATCHES = 10;
 const MAX_ROTATIONS = 512;
 
-function identity(e: ScheduledEvent): string {
-  return e.kind === "kit" ? `k|${e.piece}|${e.articulation ?? ""}|${e.velocity}` : `n|${e.pitch}|${e.velocity}`;
+const PIECE_CODE = new Map<string, number>(KIT_PIECE_IDS.map((id, i) => [id, i]));
+const ARTICULATION_CODE = new Map<string | undefined, number>([[undefined, 0], ...ARTICULATIONS.map((a, i) => [a, i + 1] as const)]);
+
+/** Sound identity as one integer: kind, kit piece and articulation or pitch, and velocity. */
+function identity(e: ScheduledEvent): number {
+  return e.kind === "kit"
+    ? ((PIECE_CODE.get(e.piece!) ?? 0) * 8 + (ARTICULATION_CODE.get(e.articulation) ?? 0)) * 128 + e.velocity
+    : 1_000_000 + e.pitch! * 128 + e.velocity;
+}
+
+function identities(events: ScheduledEvent[]): Int32Array {
+  const ids = new Int32Array(events.length);
+  for (let k = 0; k < events.length; k++) ids[k] = identity(events[k]!);
+  return ids;
 }
 
 interface Outcome {
@@ -72,7 +85,7 @@ interface Outcome {
  * Walk two time-sorted event lists (b moved back by `shift`), matching events inside each cluster of
  * simultaneous onsets. Stops collecting mismatches after `keep`; with `keep` 0 it stops at the first one.
  */
-function matchSorted(a: ScheduledEvent[], b: ScheduledEvent[], bTimes: Float64Array, keep: number): Outcome {
+function matchSorted(a: ScheduledEvent[], b: ScheduledEvent[], bTimes: Float64Array, keep: number, idA = identities(a), idB = identities(b)): Outcome {
   const out: Outcome = { matched: 0, unmatchedA: [], unmatchedB: [], complete: true };
   let i = 0;
   let j = 0;
@@ -93,7 +106,7 @@ function matchSorted(a: ScheduledEvent[], b: ScheduledEvent[], bTimes: Float64Ar
     if (i2 - i === 1 && j2 - j === 1) {
       const x = a[i]!;
       const y = b[j]!;
-      if (identity(x) === identity(y) && (x.kind === "kit" || Math.abs(x.duration - y.duration) <= TOL)) out.matched++;
+      if (idA[i] === idB[j] && (x.kind === "kit" || Math.abs(x.duration - y.duration) <= TOL)) out.matched++;
       else {
         miss("a", x);
         miss("b", y);
@@ -102,9 +115,10 @@ function matchSorted(a: ScheduledEvent[], b: ScheduledEvent[], bTimes: Float64Ar
       const ca = a.slice(i, i2);
       const cb = b.slice(j, j2);
       const used = new Array<boolean>(cb.length).fill(false);
-      for (const x of ca) {
-        const id = identity(x);
-        const k = cb.findIndex((y, n) => !used[n] && identity(y) === id && (x.kind === "kit" || Math.abs(x.duration - y.duration) <= TOL));
+      for (let m = 0; m < ca.length; m++) {
+        const x = ca[m]!;
+        const id = idA[i + m];
+        const k = cb.findIndex((y, n) => !used[n] && idB[j + n] === id && (x.kind === "kit" || Math.abs(x.duration - y.duration) <= TOL));
         if (k >= 0) {
           used[k] = true;
           out.matched++;
@@ -149,7 +163,7 @@ function isLoop(doc: GrooveDocument): boolean {
 
 /** One pass of a loop's written bars, with notes held across the seam joined and times folded into [0, T). */
 function cycle(doc: GrooveDocument): { events: ScheduledEvent[]; length: number } {
-  const events = compileSchedule(doc, Array.from({ length: doc.bars }, (_, k) => k)).map((e) => ({ ...e }));
+  const events = compileSchedule(doc, Array.from({ length: doc.bars }, (_, k) => k)); // fresh objects: ours to change
   const length = barLength(doc.meter).mul(doc.bars).valueOf() * secondsPerWholeNote(doc.tempo);
   const gone = new Set<ScheduledEvent>();
   for (const e of events) {
@@ -163,15 +177,24 @@ function cycle(doc: GrooveDocument): { events: ScheduledEvent[]; length: number 
   return { events: events.filter((e) => !gone.has(e)), length };
 }
 
-function rotated(events: ScheduledEvent[], shift: number, length: number): ScheduledEvent[] {
-  return events
-    .map((e) => {
-      let t = e.time - shift;
-      t = t - Math.floor(t / length) * length;
-      if (length - t <= TOL) t = 0;
-      return { ...e, time: t };
-    })
-    .sort((x, y) => x.time - y.time);
+/**
+ * b heard from `shift` seconds into its cycle: a sorted cycle rotates by cutting it in two, so no sort and
+ * no copies are needed (events are reordered by reference, times recomputed).
+ */
+function rotated(events: ScheduledEvent[], ids: Int32Array, shift: number, length: number): { events: ScheduledEvent[]; times: Float64Array; ids: Int32Array } {
+  const n = events.length;
+  let cut = 0;
+  while (cut < n && events[cut]!.time < shift - TOL) cut++;
+  const out: ScheduledEvent[] = new Array(n);
+  const times = new Float64Array(n);
+  const outIds = new Int32Array(n);
+  for (let k = 0; k < n; k++) {
+    const src = (cut + k) % n;
+    out[k] = events[src]!;
+    outIds[k] = ids[src]!;
+    times[k] = src >= cut ? Math.max(0, events[src]!.time - shift) : events[src]!.time - shift + length;
+  }
+  return { events: out, times, ids: outIds };
 }
 
 /**
@@ -182,7 +205,9 @@ function rotated(events: ScheduledEvent[], shift: number, length: number): Sched
 export function compareGrooves(a: GrooveDocument, b: GrooveDocument): Equivalence {
   const ea = compileSchedule(a);
   const eb = compileSchedule(b);
-  const plain = matchSorted(ea, eb, shifted(eb, 0), MAX_MISMATCHES);
+  const idA = identities(ea);
+  const idB = identities(eb);
+  const plain = matchSorted(ea, eb, shifted(eb, 0), MAX_MISMATCHES, idA, idB);
   if (plain.complete) return { verdict: "identical", matched: plain.matched };
   const spwA = secondsPerWholeNote(a.tempo);
   const offset = (raw: number, rotation: boolean, matched: number): Equivalence => {
@@ -200,7 +225,7 @@ export function compareGrooves(a: GrooveDocument, b: GrooveDocument): Equivalenc
   let best = plain;
   if (ea.length > 0 && eb.length > 0 && ea.length === eb.length) {
     const shift = eb[0]!.time - ea[0]!.time;
-    const moved = matchSorted(ea, eb, shifted(eb, shift), MAX_MISMATCHES);
+    const moved = matchSorted(ea, eb, shifted(eb, shift), MAX_MISMATCHES, idA, idB);
     if (moved.complete) return offset(shift, false, moved.matched);
     if (moved.matched > best.matched) best = moved;
   }
@@ -211,17 +236,41 @@ export function compareGrooves(a: GrooveDocument, b: GrooveDocument): Equivalenc
     const passesA = playOrder(a).length / a.bars;
     const passesB = playOrder(b).length / b.bars;
     if (Math.abs(ca.length - cb.length) <= TOL && passesA === passesB && ca.events.length === cb.events.length && cb.events.length > 0) {
-      const first = cb.events[0]!;
-      const id = identity(first);
-      const shifts = [...new Set(ca.events.filter((e) => identity(e) === id).map((e) => first.time - e.time))]
-        .map((s) => s - Math.floor(s / ca.length) * ca.length)
-        .sort((x, y) => Math.min(x, ca.length - x) - Math.min(y, ca.length - y))
+      const L = ca.length;
+      const aIds = identities(ca.events);
+      const bIds = identities(cb.events);
+      // Line up the rarest sound of b with each like event of a: few candidate rotations.
+      const count = new Map<number, number>();
+      for (const id of bIds) count.set(id, (count.get(id) ?? 0) + 1);
+      let rare = 0;
+      for (let k = 1; k < bIds.length; k++) if (count.get(bIds[k]!)! < count.get(bIds[rare]!)!) rare = k;
+      const anchor = cb.events[rare]!;
+      const aTimes = Float64Array.from(ca.events, (e) => e.time);
+      const has = (t: number, id: number) => {
+        // Is there an event of a with this identity within the tolerance of t (cyclically)?
+        for (const u of [t, t - L, t + L]) {
+          let lo = 0;
+          let hi = aTimes.length;
+          while (lo < hi) {
+            const mid = (lo + hi) >> 1;
+            if (aTimes[mid]! < u - TOL) lo = mid + 1;
+            else hi = mid;
+          }
+          for (let k = lo; k < aTimes.length && aTimes[k]! <= u + TOL; k++) if (aIds[k] === id) return true;
+        }
+        return false;
+      };
+      const sample = Array.from({ length: Math.min(24, cb.events.length) }, (_, k) => Math.floor((k * cb.events.length) / Math.min(24, cb.events.length)));
+      const shifts = [...new Set(ca.events.filter((_, k) => aIds[k] === bIds[rare]).map((e) => anchor.time - e.time))]
+        .map((x) => x - Math.floor(x / L) * L)
+        .sort((x, y) => Math.min(x, L - x) - Math.min(y, L - y))
+        .filter((x) => sample.every((k) => has(cb.events[k]!.time - x - Math.floor((cb.events[k]!.time - x) / L) * L, bIds[k]!)))
         .slice(0, MAX_ROTATIONS);
       for (const s of shifts) {
-        const rb = rotated(cb.events, s, ca.length);
-        const r = matchSorted(ca.events, rb, shifted(rb, 0), 0);
+        const rb = rotated(cb.events, bIds, s, L);
+        const r = matchSorted(ca.events, rb.events, rb.times, 0, aIds, rb.ids);
         if (r.complete) {
-          const signed = s > ca.length / 2 + TOL ? s - ca.length : s;
+          const signed = s > L / 2 + TOL ? s - L : s;
           return offset(Math.abs(signed) <= TOL ? 0 : signed, true, r.matched);
         }
       }

@@ -24,14 +24,14 @@ function parts(s: Rational): [number, number] | null {
 }
 
 /**
- * Converts rationals to whole numbers of a step and back, with a cache (positions repeat across lanes).
+ * Converts rationals to whole numbers of a step and back. Formatting is cached, so equal positions share
+ * one string in the documents it builds.
  * @example new TickCodec("1/16").toTicks("3/8") // 6
  */
 export class TickCodec {
   readonly step: Fraction;
   private readonly sn: number;
   private readonly sd: number;
-  private readonly toCache = new Map<string, number>();
   private readonly fromCache = new Map<number, Rational>();
 
   constructor(step: RationalInput) {
@@ -43,8 +43,6 @@ export class TickCodec {
 
   /** Whole steps in `s`; throws a RhythmError naming `what` when `s` is not a multiple of the step. */
   toTicks(s: Rational, what = "position"): number {
-    const hit = this.toCache.get(s);
-    if (hit !== undefined) return hit;
     let t: number | null = null;
     const p = parts(s);
     if (p && Number.isSafeInteger(this.sn) && Number.isSafeInteger(this.sd)) {
@@ -61,9 +59,7 @@ export class TickCodec {
       t = Number(f.s * f.n);
       if (!Number.isSafeInteger(t)) throw new RhythmError(`${what} ${s} is too large`);
     }
-    t = t + 0; // no negative zero
-    this.toCache.set(s, t);
-    return t;
+    return t + 0; // no negative zero
   }
 
   /** The rational `ticks × step` in canonical form. */
