@@ -18,7 +18,7 @@ import { beamGroups, stemFor } from "./beams";
 import { noteValueOf, tickValues } from "./durations";
 import { kitDisplay, kitVoice, staffIndex } from "./kit-staff";
 import { groupIndexAt, makeMetric, type Metric } from "./metric";
-import type { Head, KeysHead, KitHead, NotationBar, NotationScore, VoiceEvent } from "./model";
+import type { Head, KeysHead, KitHead, NotationBar, NotationScore, NoteEvent, RestEvent, VoiceEvent } from "./model";
 import { chooseAccidentals, spellMidi, type Accidentals } from "./pitch-spelling";
 import { makeTimebase, type Timebase } from "./timebase";
 import { spellVoice, type Piece, type Written } from "./voice";
@@ -149,8 +149,8 @@ export function spellBars(doc: GrooveDocument, fromBar: number, toBar: number): 
     let up = kitEvents(p, upHits, "up");
     let down = kitEvents(p, downHits, "down");
     // An empty kit voice is hidden while the other voice plays; an empty bar shows one whole-bar rest.
-    if (downHits.length === 0) down = down.map((e) => ({ ...e, hidden: true }));
-    if (upHits.length === 0 && downHits.length > 0) up = up.map((e) => ({ ...e, hidden: true }));
+    if (downHits.length === 0) down = down.map(hide);
+    if (upHits.length === 0 && downHits.length > 0) up = up.map(hide);
     let keys: NotationBar["keys"] = null;
     if (hasKeys) {
       const tr: Slice[] = [];
@@ -165,6 +165,8 @@ export function spellBars(doc: GrooveDocument, fromBar: number, toBar: number): 
 }
 
 type KitChord = readonly KitHead[];
+
+const hide = (e: VoiceEvent): VoiceEvent => (e.kind === "rest" ? { ...e, hidden: true } : e);
 
 /** Kit voice of one bar: each chord lasts to the next onset or the end of its beat group. */
 function kitEvents(p: Prepared, hits: readonly Hit[], voice: "up" | "down"): VoiceEvent[] {
@@ -272,17 +274,18 @@ function keysEvents(p: Prepared, slices: readonly Slice[], barStart: number, mid
         if (sp.alter !== current) accidental = sp.alter === 1 ? "sharp" : sp.alter === -1 ? "flat" : "natural";
         accState.set(key, sp.alter);
       }
-      return {
+      const head: { -readonly [K in keyof KeysHead]: KeysHead[K] } = {
         kind: "pitch",
         midi: h.midi,
         step: sp.step,
         alter: sp.alter,
         octave: sp.octave,
-        ...(accidental ? { accidental } : {}),
         velocity: h.velocity,
         tieStart,
         tieStop,
-      } satisfies KeysHead;
+      };
+      if (accidental) head.accidental = accidental;
+      return head;
     });
   });
   // Stems: a beamed group shares one direction, decided by its note farthest from the middle line.
@@ -301,12 +304,22 @@ function keysEvents(p: Prepared, slices: readonly Slice[], barStart: number, mid
 
 function toEvent<T>(p: Prepared, w: Written<T>, heads: readonly Head[] | null, stem: "up" | "down", beam: number | undefined): VoiceEvent {
   const { tb } = p;
-  const base = {
+  // Built field by field: object spreads are the slowest part of spelling a long song.
+  if (heads === null || w.note === null) {
+    const rest: { -readonly [K in keyof RestEvent]: RestEvent[K] } = { kind: "rest", at: tb.rational(w.s), duration: tb.rational(w.len), value: w.value };
+    if (w.tuplet) rest.tuplet = w.tuplet;
+    if (w.measure) rest.measure = true;
+    return rest;
+  }
+  const note: { -readonly [K in keyof NoteEvent]: NoteEvent[K] } = {
+    kind: "note",
     at: tb.rational(w.s),
     duration: tb.rational(w.len),
     value: w.value,
-    ...(w.tuplet ? { tuplet: w.tuplet } : {}),
+    heads,
+    stem,
   };
-  if (heads === null || w.note === null) return { ...base, kind: "rest", ...(w.measure ? { measure: true } : {}) };
-  return { ...base, kind: "note", heads, stem, ...(beam !== undefined ? { beam } : {}) };
+  if (w.tuplet) note.tuplet = w.tuplet;
+  if (beam !== undefined) note.beam = beam;
+  return note;
 }

@@ -246,7 +246,13 @@ function writeFrame<T>(
     while (s < e) {
       const isRest = !noteLeft;
       const cap = ctx.kit && !isRest ? kitMax : Infinity;
-      const tv = ctx.values.find((v) => v.ticks <= e - s && v.ticks <= cap && fits(frame, s, v.ticks, v.value, isRest));
+      let tv: TickValue | undefined;
+      for (const v of ctx.values) {
+        if (v.ticks <= e - s && v.ticks <= cap && fits(frame, s, v.ticks, v.value, isRest)) {
+          tv = v;
+          break;
+        }
+      }
       if (!tv) throw new RhythmError(`internal: no written value fits at ${s}–${e} of a frame`);
       const start = toSounding(s + a);
       const end = toSounding(s + a + tv.ticks);
