@@ -82,7 +82,7 @@ describe("saveVersion", () => {
 
   it("passes on conflicts, invalid fields and network failures as values", async () => {
     const conflict = await saveVersion("g", "v", doc, "", { fetch: reply(409, { error: { code: "version_conflict", message: "Version 3 came first" } }) as unknown as typeof fetch });
-    expect(conflict).toEqual({ ok: false, kind: "conflict", message: "Version 3 came first" });
+    expect(conflict).toEqual({ ok: false, kind: "conflict", message: "Version 3 came first", latest: null });
     const invalid = await saveVersion("g", "v", doc, "", {
       fetch: reply(400, { error: { code: "invalid", message: "Bad", fields: { "document.bars": ["too many"] } } }) as unknown as typeof fetch,
     });
