@@ -142,6 +142,21 @@ describe("displace: rotate (loops)", () => {
     expect(keys.map((e) => [e.time, e.duration])).toEqual([[0, 0.25], [1.75, 0.5], [3.75, 0.25]]);
   });
 
+  test.prop([loopArb({ maxBars: 4 }).chain((d) => fc.tuple(fc.constant(d), shiftFor(d), fc.integer({ min: 2, max: 3 })))])(
+    "a rotated loop that repeats plays the same when its repeats are written out",
+    ([d, x, repeats]) => {
+      const r = displace({ ...d, sections: [{ name: "Loop", startBar: 0, bars: d.bars, repeats }] }, x);
+      const flat = writeOutRepeats(r);
+      expect(flat.sections.every((s) => s.repeats === 1)).toBe(true);
+      expectSameSound(compileSchedule(r), compileSchedule(flat));
+      expect(assertGroove(flat)).toEqual(flat);
+    },
+  );
+
+  it("rejects a tiedFromEnd mark away from the start", () => {
+    expect(() => assertGroove({ ...loop(), keys: { notes: [{ at: "1/8", duration: "1/8", pitch: 60, tiedFromEnd: true }] } })).toThrow(/only a note at 0/);
+  });
+
   it("keeps two repeated notes that meet at the seam as two notes", () => {
     const d = assertGroove({ ...loop(), keys: { notes: [{ at: "0", duration: "1/8", pitch: 60 }, { at: "7/8", duration: "1/8", pitch: 60 }], splitPitch: 60 } });
     const r = displace(d, "1/8");

@@ -232,7 +232,8 @@ function shiftTimeline(doc: GrooveDocument, x: number, codec: TickCodec, mode: "
 
 /**
  * Write repeated sections out bar by bar, so the groove plays the same with every repeat count 1.
- * Each pass becomes its own section with the same name. Keys notes keep their full length.
+ * Each pass becomes its own section with the same name. Keys notes keep their full length; a `tiedFromEnd`
+ * note that continues a note held over a repeat (as the schedule plays it) becomes part of that note.
  * @example writeOutRepeats(doc).sections.every((s) => s.repeats === 1) // true
  */
 export function writeOutRepeats(doc: GrooveDocument): GrooveDocument {
@@ -267,10 +268,26 @@ export function writeOutRepeats(doc: GrooveDocument): GrooveDocument {
     keys: {
       ...doc.keys,
       notes: emitNotes(
-        doc.keys.notes.flatMap((note) => place(codec.toTicks(note.at)).map((s) => ({ s, d: codec.toTicks(note.duration, "duration"), note }))),
+        joinHeld(doc.keys.notes.flatMap((note) => place(codec.toTicks(note.at)).map((s) => ({ s, d: codec.toTicks(note.duration, "duration"), note })))),
         codec,
         "writing out the repeats",
       ),
     },
   };
+}
+
+/** Extend notes held into a copy of a `tiedFromEnd` note instead of sounding the copy again. */
+function joinHeld(notes: TickNote[]): TickNote[] {
+  const byEnd = new Map<string, TickNote>();
+  for (const n of sortNotes(notes)) byEnd.set(`${n.note.pitch}|${n.note.velocity}|${n.s + n.d}`, n);
+  const out: TickNote[] = [];
+  for (const n of notes) {
+    const held = n.note.tiedFromEnd && n.s > 0 ? byEnd.get(`${n.note.pitch}|${n.note.velocity}|${n.s}`) : undefined;
+    if (held && held !== n) {
+      byEnd.delete(`${held.note.pitch}|${held.note.velocity}|${held.s + held.d}`);
+      held.d += n.d;
+      byEnd.set(`${held.note.pitch}|${held.note.velocity}|${held.s + held.d}`, held);
+    } else out.push(n);
+  }
+  return out;
 }
