@@ -44,8 +44,13 @@ const MORE_METERS: readonly Meter[] = [
   { beatsPerBar: 4, beatUnit: 4, grouping: [2, 2] },
   { beatsPerBar: 8, beatUnit: 8, grouping: [3, 3, 2] },
   { beatsPerBar: 2, beatUnit: 16 },
+  { beatsPerBar: 2, beatUnit: 1 },
+  { beatsPerBar: 15, beatUnit: 16 },
+  { beatsPerBar: 5, beatUnit: 8, grouping: [5] },
+  { beatsPerBar: 4, beatUnit: 4, grouping: [3, 1] },
 ];
-const MORE_GRIDS = ["1/4", "1/8", "1/16", "1/32", "1/12", "1/24", "1/20", "1/48"];
+/** Plain, triplet, quintuplet, septuplet and odd-length steps (quarter triplets 1/6, dotted eighths 3/16). */
+const MORE_GRIDS = ["1/4", "1/8", "1/16", "1/32", "1/12", "1/24", "1/20", "1/48", "1/6", "1/28", "1/40", "3/16"];
 
 const docs = () => grooveArb({ meters: MORE_METERS, grids: MORE_GRIDS, maxBars: 4 });
 const RUNS = { numRuns: 200 };

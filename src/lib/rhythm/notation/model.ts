@@ -163,5 +163,8 @@ export interface NotationScore {
   readonly bars: readonly NotationBar[];
   /** Song form as in the document (empty when the groove is a single loop without sections). */
   readonly sections: readonly NotationSection[];
+  /** True when the groove has keys notes (otherwise every bar's `keys` is null). */
   readonly hasKeys: boolean;
+  /** True when the groove has kit lanes (a keys-only groove may leave the percussion staff out). */
+  readonly hasKit: boolean;
 }

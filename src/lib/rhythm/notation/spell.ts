@@ -120,6 +120,7 @@ export function spellGroove(doc: GrooveDocument): NotationScore {
     bars: spellBars(doc, 0, doc.bars),
     sections: doc.sections.map((s) => ({ name: s.name, startBar: s.startBar, bars: s.bars, repeats: s.repeats })),
     hasKeys,
+    hasKit: doc.kit.lanes.length > 0,
   };
 }
 
