@@ -6,7 +6,8 @@
  * duration. Kit durations are nominal and not compared. Tolerance: 1 microsecond.
  *
  * Verdicts:
- * - "identical": the same events at the same times;
+ * - "identical": the same events at the same times (trailing silence, such as an empty last bar, is not a
+ *   sounding event and is not compared);
  * - "offset": the same events moved by a constant time. First the shift that aligns the two first onsets is
  *   tried; then, when both grooves are loops (no sections or one) of the same length, every rotation that
  *   lines an event of b up with a like event of a (a loop heard from another point). For a rotation, notes

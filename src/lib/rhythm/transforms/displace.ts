@@ -249,8 +249,12 @@ export function writeOutRepeats(doc: GrooveDocument): GrooveDocument {
       for (let b = 0; b < s.bars; b++) passesOfBar[s.startBar + b]!.push(pass++);
     }
   checkBars(pass, "writing out the repeats");
-  if (pass * (doc.kit.lanes.reduce((a, l) => a + l.hits.length, 0) / doc.bars) > LIMITS.maxHitsPerLane * doc.kit.lanes.length)
-    throw new RhythmError("writing out the repeats makes the groove too large");
+  const copies = (at: Rational) => passesOfBar[Math.floor(codec.toTicks(at) / barTicks)]!.length;
+  for (const lane of doc.kit.lanes)
+    if (lane.hits.reduce((a, h) => a + copies(h.at), 0) > LIMITS.maxHitsPerLane)
+      throw new RhythmError(`writing out the repeats gives ${lane.piece} more than ${LIMITS.maxHitsPerLane} hits`);
+  if (doc.keys.notes.reduce((a, n) => a + copies(n.at), 0) > LIMITS.maxKeyNotes)
+    throw new RhythmError(`writing out the repeats gives the keys more than ${LIMITS.maxKeyNotes} notes`);
   const place = (t: number) => passesOfBar[Math.floor(t / barTicks)]!.map((p) => p * barTicks + (t % barTicks));
   return {
     ...doc,
