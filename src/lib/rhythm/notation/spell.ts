@@ -107,7 +107,9 @@ function kitHead(cache: Map<string, KitHead>, piece: KitPieceId, dynamic: Dynami
 }
 
 /**
- * Spell the whole groove.
+ * Spell the whole groove. Documents are treated as immutable: the parsed positions are cached per document
+ * object (a WeakMap), so `spellBars` on the same object after the first call only spells its bars.
+ * Throws a RhythmError only for documents that would fail validation (positions off the grid).
  * @example spellGroove(assertGroove(json)).bars[0].kit.up // the hands' notes and rests of bar 1
  */
 export function spellGroove(doc: GrooveDocument): NotationScore {
