@@ -435,7 +435,11 @@ export function createEditorStore(init: EditorInit): EditorStore {
               else set({ cursor: { area: "keys", pitch: rows[Math.max(0, Math.min(rows.length - 1, i))]!, col } });
             }
           },
-          setCursor: (cursor) => set({ cursor }),
+          setCursor(cursor) {
+            const c = get().cursor;
+            const same = c.area === cursor.area && c.col === cursor.col && (c.area === "kit" ? c.row === (cursor as typeof c).row : c.pitch === (cursor as typeof c).pitch);
+            if (!same) set({ cursor });
+          },
           cursorToBarEdge(which) {
             const s = get();
             const cols = stepCount(s.doc);

@@ -3,7 +3,7 @@
  * drag right to stretch; several pitches at one step make a chord. A press on a note without moving
  * removes it. Touch: a tap adds or removes; the Longer / Shorter buttons change the note at the cursor.
  */
-import { memo, useEffect, useMemo, useRef, type PointerEvent as ReactPointerEvent } from "react";
+import { memo, useEffect, useId, useMemo, useRef, useState, type PointerEvent as ReactPointerEvent } from "react";
 import { useShallow } from "zustand/react/shallow";
 import { q, type KeyNote } from "../../lib/rhythm";
 import { keyNoteAt } from "../../lib/rhythm/editing";
@@ -90,6 +90,8 @@ export function KeysLane({ columns, shade }: { columns: GridColumn[]; shade: boo
   const gridRef = useRef<HTMLDivElement>(null);
   const dragging = useRef(false);
   const touch = useRef<{ pitch: number; col: number } | null>(null);
+  const [open, setOpen] = useState(true);
+  const gridId = useId();
 
   useEffect(() => {
     const grid = gridRef.current;
@@ -151,6 +153,9 @@ export function KeysLane({ columns, shade }: { columns: GridColumn[]; shade: boo
     <div className="tx-keys">
       <div className="tx-keys-tools">
         <span className="tx-keys-title">Keys</span>
+        <button type="button" className="tx-btn is-small is-quiet" aria-expanded={open} aria-controls={gridId} onClick={() => setOpen(!open)}>
+          {open ? "Hide the keys lane" : "Show the keys lane"}
+        </button>
         <button type="button" className="tx-btn is-small" onClick={() => shift(12)} disabled={range.high >= 127}>
           Octave up
         </button>
@@ -176,6 +181,8 @@ export function KeysLane({ columns, shade }: { columns: GridColumn[]; shade: boo
       </div>
       <div
         ref={gridRef}
+        id={gridId}
+        hidden={!open}
         role="grid"
         aria-label="Keys lane: one row per pitch"
         aria-rowcount={rows.length}
@@ -185,6 +192,10 @@ export function KeysLane({ columns, shade }: { columns: GridColumn[]; shade: boo
         onPointerOver={onPointerOver}
         onPointerUp={onPointerUp}
         onPointerCancel={() => (touch.current = null)}
+        onFocus={(e) => {
+          const c = cellOf(e.target);
+          if (c) actions.setCursor({ area: "keys", pitch: Number(c.dataset.pitch), col: Number(c.dataset.col) });
+        }}
       >
         {rows.map((p, i) => (
           <KeyRow key={p} pitch={p} index={i} columns={columns} shade={shade} split={p === splitPitch} />

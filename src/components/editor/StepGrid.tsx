@@ -154,6 +154,11 @@ export function StepGrid({ columns, shade, menuRef }: StepGridProps) {
         onPointerUp={onPointerUp}
         onPointerCancel={cancelTouch}
         onContextMenu={onContextMenu}
+        onFocus={(e) => {
+          // Focus that arrives by Tab or script moves the cursor too, so keys act where the focus is.
+          const c = cellOf(e.target, "data-kcell");
+          if (c) actions.setCursor({ area: "kit", row: Number(c.dataset.row), col: Number(c.dataset.col) });
+        }}
       >
         <div role="row" className="tx-row tx-barrow" aria-rowindex={1}>
           <div role="columnheader" className="tx-rowhead tx-corner">
