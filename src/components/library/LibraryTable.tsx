@@ -24,9 +24,9 @@ const SORTABLE = { title: "title", updatedAt: "updated", createdAt: "created" } 
 const dateFormat = new Intl.DateTimeFormat("en-GB", { day: "numeric", month: "short", year: "numeric", hour: "2-digit", minute: "2-digit" });
 const when = (iso: string) => dateFormat.format(new Date(iso));
 
-function readUrl(): GrooveListParams {
-  if (typeof location === "undefined") return {};
-  const p = new URLSearchParams(location.search);
+/** The filters in the page's query string (passed from the server render, so server and browser agree). */
+function readQuery(query: Record<string, string>): GrooveListParams {
+  const p = new URLSearchParams(query);
   const num = (k: string) => (p.get(k) && Number.isInteger(Number(p.get(k))) ? Number(p.get(k)) : undefined);
   return {
     scope: (p.get("scope") as Scope) || undefined,
@@ -41,8 +41,11 @@ function readUrl(): GrooveListParams {
 
 const col = createColumnHelper<GrooveSummary>();
 
-function LibraryTable({ signedIn, userId }: { signedIn: boolean; userId: string | null }) {
-  const [params, setParams] = useState<GrooveListParams>(() => ({ scope: signedIn ? "all" : "public", sort: "updated", dir: "desc", page: 1, pageSize: 20, ...readUrl() }));
+function LibraryTable({ signedIn, userId, query: initialQuery = {} }: { signedIn: boolean; userId: string | null; query?: Record<string, string> }) {
+  const [params, setParams] = useState<GrooveListParams>(() => {
+    const fromUrl = Object.fromEntries(Object.entries(readQuery(initialQuery)).filter(([, v]) => v !== undefined));
+    return { scope: signedIn ? "all" : "public", sort: "updated", dir: "desc", page: 1, pageSize: 20, ...fromUrl };
+  });
   const [search, setSearch] = useState(params.q ?? "");
   const [showNew, setShowNew] = useState(false);
 
