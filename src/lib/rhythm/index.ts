@@ -10,3 +10,4 @@ export * from "./transforms";
 export * from "./schedule";
 export * from "./equivalence";
 export * from "./describe-position";
+export * from "./readings";
