@@ -163,19 +163,21 @@ function isLoop(doc: GrooveDocument): boolean {
 }
 
 /** One pass of a loop's written bars, with notes held across the seam joined and times folded into [0, T). */
-function cycle(doc: GrooveDocument): { events: ScheduledEvent[]; length: number } {
-  const events = compileSchedule(doc, Array.from({ length: doc.bars }, (_, k) => k)); // fresh objects: ours to change
+function cycle(doc: GrooveDocument, full: ScheduledEvent[]): { events: ScheduledEvent[]; length: number; isFull: boolean } {
+  // When the play order is every bar once, the full schedule already is one cycle.
+  const once = playOrder(doc).length === doc.bars;
+  const events = once ? full.slice() : compileSchedule(doc, Array.from({ length: doc.bars }, (_, k) => k));
   const length = barLength(doc.meter).mul(doc.bars).valueOf() * secondsPerWholeNote(doc.tempo);
   const gone = new Set<ScheduledEvent>();
   for (const e of events) {
     if (!e.tiedFromEnd) continue;
-    const partner = events.find((p) => p !== e && !gone.has(p) && p.kind === "keys" && p.pitch === e.pitch && p.velocity === e.velocity && Math.abs(p.time + p.duration - length) <= TOL);
-    if (partner) {
-      partner.duration += e.duration;
+    const k = events.findIndex((p) => p !== e && !gone.has(p) && p.kind === "keys" && p.pitch === e.pitch && p.velocity === e.velocity && Math.abs(p.time + p.duration - length) <= TOL);
+    if (k >= 0) {
+      events[k] = { ...events[k]!, duration: events[k]!.duration + e.duration }; // a copy: `full` stays as compiled
       gone.add(e);
     }
   }
-  return { events: events.filter((e) => !gone.has(e)), length };
+  return { events: gone.size ? events.filter((e) => !gone.has(e)) : events, length, isFull: once && gone.size === 0 };
 }
 
 /**
@@ -208,38 +210,30 @@ export function compareGrooves(a: GrooveDocument, b: GrooveDocument): Equivalenc
   const eb = compileSchedule(b);
   const idA = identities(ea);
   const idB = identities(eb);
-  const plain = matchSorted(ea, eb, shifted(eb, 0), MAX_MISMATCHES, idA, idB);
+  // Quick passes stop at the first mismatch; the detailed ones run only when the verdict is "different".
+  const plain = matchSorted(ea, eb, shifted(eb, 0), 0, idA, idB);
   if (plain.complete) return { verdict: "identical", matched: plain.matched };
   const spwA = secondsPerWholeNote(a.tempo);
   const offset = (raw: number, rotation: boolean, matched: number): Equivalence => {
     const seconds = Math.round(raw * 1e9) / 1e9; // float noise off: nanoseconds are far inside the tolerance
-    return {
-    verdict: "offset",
-    offsetSeconds: seconds,
-    offsetMs: seconds * 1000,
-    offsetNotes: toRational(seconds / spwA),
-    rotation,
-    matched,
-    };
+    return { verdict: "offset", offsetSeconds: seconds, offsetMs: seconds * 1000, offsetNotes: toRational(seconds / spwA), rotation, matched };
   };
 
-  let best = plain;
-  if (ea.length > 0 && eb.length > 0 && ea.length === eb.length) {
-    const shift = eb[0]!.time - ea[0]!.time;
-    const moved = matchSorted(ea, eb, shifted(eb, shift), MAX_MISMATCHES, idA, idB);
+  const shift = ea.length > 0 && eb.length > 0 && ea.length === eb.length ? eb[0]!.time - ea[0]!.time : 0;
+  if (Math.abs(shift) > TOL) {
+    const moved = matchSorted(ea, eb, shifted(eb, shift), 0, idA, idB);
     if (moved.complete) return offset(shift, false, moved.matched);
-    if (moved.matched > best.matched) best = moved;
   }
 
   if (isLoop(a) && isLoop(b) && playOrder(a).length * a.bars > 0) {
-    const ca = cycle(a);
-    const cb = cycle(b);
+    const ca = cycle(a, ea);
+    const cb = cycle(b, eb);
     const passesA = playOrder(a).length / a.bars;
     const passesB = playOrder(b).length / b.bars;
     if (Math.abs(ca.length - cb.length) <= TOL && passesA === passesB && ca.events.length === cb.events.length && cb.events.length > 0) {
       const L = ca.length;
-      const aIds = identities(ca.events);
-      const bIds = identities(cb.events);
+      const aIds = ca.isFull ? idA : identities(ca.events);
+      const bIds = cb.isFull ? idB : identities(cb.events);
       // Line up the rarest sound of b with each like event of a: few candidate rotations.
       const count = new Map<number, number>();
       for (const id of bIds) count.set(id, (count.get(id) ?? 0) + 1);
@@ -286,6 +280,11 @@ export function compareGrooves(a: GrooveDocument, b: GrooveDocument): Equivalenc
     if (e.pitch !== undefined) m.pitch = e.pitch;
     return m;
   };
+  let best = matchSorted(ea, eb, shifted(eb, 0), MAX_MISMATCHES, idA, idB);
+  if (Math.abs(shift) > TOL) {
+    const moved = matchSorted(ea, eb, shifted(eb, shift), MAX_MISMATCHES, idA, idB);
+    if (moved.matched > best.matched) best = moved;
+  }
   const mismatches = [...best.unmatchedA.map((e) => describe("a", e)), ...best.unmatchedB.map((e) => describe("b", e))]
     .sort((x, y) => x.time - y.time || (x.side < y.side ? -1 : 1))
     .slice(0, MAX_MISMATCHES);
