@@ -7,6 +7,7 @@
  * fresh copy of the document each run (no cache carried over), and `spellBars` for an 8-bar window at the
  * end of the song (incremental rendering). Target: spelling 1,000 bars under 300 ms.
  */
+import { cpus, loadavg } from "node:os";
 import { performance } from "node:perf_hooks";
 import { assertGroove, spellBars, spellGroove, type GrooveDocument, type GrooveDocumentInput } from "../../src/lib/rhythm";
 
@@ -116,4 +117,5 @@ const w0 = performance.now();
 spellBars(warm, BARS - 8, BARS);
 console.log(`spellBars, last 8 bars with the document already prepared: ${(performance.now() - w0).toFixed(2)} ms`);
 console.log(`peak heap used: ${(peakHeap / 1048576).toFixed(1)} MB`);
+console.log(`machine: ${cpus().length} cores, load average ${loadavg().map((x) => x.toFixed(1)).join(" / ")} (wall times grow with the load; CPU time less so)`);
 if (spell >= TARGET_MS) process.exitCode = 1;

@@ -19,6 +19,7 @@ import {
   valueLength,
   type NoteType,
 } from "../../../src/lib/rhythm";
+import { makeTimebase } from "../../../src/lib/rhythm/notation/timebase";
 
 /** Our MusicXML type names → tonal's names (tonal has no 512th/1024th). */
 const TONAL_NAME: Partial<Record<NoteType, string>> = {
@@ -152,5 +153,22 @@ describe("groupings", () => {
     expect(notationGrouping({ beatsPerBar: 7, beatUnit: 8 })).toEqual([2, 2, 3]);
     expect(notationGrouping({ beatsPerBar: 5, beatUnit: 8 })).toEqual([2, 3]);
     expect(notationGrouping({ beatsPerBar: 7, beatUnit: 8, grouping: [3, 2, 2] })).toEqual([3, 2, 2]);
+  });
+});
+
+describe("the spelling timebase", () => {
+  it("turns grid positions into whole ticks and back, exactly", () => {
+    const tb = makeTimebase("1/24", 4);
+    expect(tb.D % 24).toBe(0);
+    for (const r of ["0", "1/24", "3/16", "2", "-1/8", "1001/24", "5/2"]) expect(tb.rational(tb.ticks(r))).toBe(r);
+    expect(tb.ticks("1/4") * 4).toBe(tb.D);
+  });
+
+  it("refuses positions that are not on the grid or not rationals", () => {
+    const tb = makeTimebase("1/16", 4);
+    expect(() => tb.ticks("1/7")).toThrow(/not on the 1\/16 grid/);
+    expect(() => tb.ticks("1/")).toThrow();
+    expect(() => tb.ticks("abc")).toThrow();
+    expect(() => tb.ticks("")).toThrow();
   });
 });

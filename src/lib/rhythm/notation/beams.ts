@@ -30,26 +30,34 @@ export function isBeamable(value: NoteValue): boolean {
 export function beamGroups(events: readonly Beamable[], units: readonly (readonly [number, number])[]): (number | undefined)[] {
   const beams: (number | undefined)[] = new Array(events.length).fill(undefined);
   let id = 0;
-  let run: number[] = [];
+  let runStart = -1; // first event of the current run of beamable notes (same unit), or -1
+  let runCount = 0;
   let runUnit = -1;
   let u = 0;
-  const flush = () => {
-    if (run.length >= 2) {
+  const close = (upTo: number) => {
+    if (runCount >= 2) {
       id++;
-      for (const i of run) beams[i] = id;
+      for (let j = runStart; j < upTo; j++) if (events[j]!.note !== null) beams[j] = id;
     }
-    run = [];
+    runStart = -1;
+    runCount = 0;
   };
-  events.forEach((ev, i) => {
+  let lastNote = -1;
+  for (let i = 0; i < events.length; i++) {
+    const ev = events[i]!;
     while (u < units.length - 1 && ev.s >= units[u]![1]) u++;
-    if (u !== runUnit) flush();
+    if (u !== runUnit) close(lastNote + 1);
     runUnit = u;
-    if (ev.note === null) return;
-    const crosses = ev.s + ev.len > units[u]![1];
-    if (!isBeamable(ev.value) || crosses) flush();
-    else run.push(i);
-  });
-  flush();
+    if (ev.note === null) continue;
+    if (!isBeamable(ev.value) || ev.s + ev.len > units[u]![1]) {
+      close(lastNote + 1);
+      continue;
+    }
+    if (runStart < 0) runStart = i;
+    runCount++;
+    lastNote = i;
+  }
+  close(lastNote + 1);
   return beams;
 }
 

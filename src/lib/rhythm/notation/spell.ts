@@ -13,9 +13,9 @@
  *   ties show what is held). Notes are also split and tied at bar lines and wherever the beat must show.
  */
 import { type GrooveDocument, RhythmError } from "../document";
-import type { Articulation, Dynamic, KitPieceId } from "../kit";
+import { ARTICULATIONS, DYNAMICS, KIT_PIECE_IDS, type Articulation, type Dynamic, type KitPieceId } from "../kit";
 import { beamGroups, stemFor } from "./beams";
-import { noteValueOf, tickValues } from "./durations";
+import { noteValueOf } from "./durations";
 import { kitDisplay, kitVoice, staffIndex } from "./kit-staff";
 import { groupIndexAt, makeMetric, type Metric } from "./metric";
 import type { Head, KeysHead, KitHead, NotationBar, NotationScore, NoteEvent, RestEvent, VoiceEvent } from "./model";
@@ -59,7 +59,7 @@ function prepare(doc: GrooveDocument): Prepared {
   const barTicks = metric.barTicks;
   const up: Hit[][] = Array.from({ length: doc.bars }, () => []);
   const down: Hit[][] = Array.from({ length: doc.bars }, () => []);
-  const headCache = new Map<string, KitHead>();
+  const headCache = new Map<number, KitHead>();
   for (const lane of doc.kit.lanes) {
     const buckets = kitVoice(lane.piece) === "up" ? up : down;
     for (const h of lane.hits) {
@@ -88,8 +88,8 @@ function prepare(doc: GrooveDocument): Prepared {
   return p;
 }
 
-function kitHead(cache: Map<string, KitHead>, piece: KitPieceId, dynamic: Dynamic, articulation?: Articulation): KitHead {
-  const key = `${piece}|${dynamic}|${articulation ?? ""}`;
+function kitHead(cache: Map<number, KitHead>, piece: KitPieceId, dynamic: Dynamic, articulation?: Articulation): KitHead {
+  const key = (KIT_PIECE_IDS.indexOf(piece) * 4 + DYNAMICS.indexOf(dynamic)) * 4 + (articulation ? ARTICULATIONS.indexOf(articulation) + 1 : 0);
   let h = cache.get(key);
   if (!h) {
     h = {
@@ -169,6 +169,9 @@ export function spellBars(doc: GrooveDocument, fromBar: number, toBar: number): 
 
 type KitChord = readonly KitHead[];
 
+const KIT = { kit: true } as const;
+const KEYS = { kit: false } as const;
+
 const hide = (e: VoiceEvent): VoiceEvent => (e.kind === "rest" ? { ...e, hidden: true } : e);
 
 /** Kit voice of one bar: each chord lasts to the next onset or the end of its beat group. */
@@ -187,7 +190,7 @@ function kitEvents(p: Prepared, hits: readonly Hit[], voice: "up" | "down"): Voi
     cur = end;
   }
   if (cur < metric.barTicks) pieces.push({ s: cur, e: metric.barTicks, note: null });
-  const written = spellVoice(pieces, metric, p.tb.D, () => tickValues(p.tb.D), { kit: true });
+  const written = spellVoice(pieces, metric, p.tb.D, KIT);
   const beams = beamGroups(written, metric.beamUnits);
   return written.map((w, i) => toEvent(p, w, w.note, voice, beams[i]));
 }
@@ -219,12 +222,14 @@ function keysSlices(notes: readonly KeyNote[], r0: number, r1: number, barTicks:
   }
   const pts = [...cuts].sort((a, b) => a - b);
   const raw: { s: number; e: number; heads: Map<number, { velocity: number; onset: boolean }> }[] = [];
-  let active: KeyNote[] = [];
+  const active: KeyNote[] = [];
   let k = 0;
   for (let i = 0; i + 1 < pts.length; i++) {
     const t = pts[i]!;
     while (k < relevant.length && Math.max(relevant[k]!.s, r0) <= t) active.push(relevant[k++]!);
-    active = active.filter((n) => n.e > t);
+    let kept = 0;
+    for (const n of active) if (n.e > t) active[kept++] = n;
+    active.length = kept;
     const heads = new Map<number, { velocity: number; onset: boolean }>();
     for (const n of active) {
       const onset = n.s === t;
@@ -256,7 +261,7 @@ function keysEvents(p: Prepared, slices: readonly Slice[], barStart: number, mid
     e: sl.e - barStart,
     note: sl.heads.length > 0 ? sl : null,
   }));
-  const written = spellVoice(pieces, metric, tb.D, () => tickValues(tb.D), { kit: false });
+  const written = spellVoice(pieces, metric, tb.D, KEYS);
   const beams = beamGroups(written, metric.beamUnits);
   // Ties: consecutive events of one piece are tied; the first and last take the slice's own flags.
   const accState = new Map<number, number>();
@@ -292,18 +297,24 @@ function keysEvents(p: Prepared, slices: readonly Slice[], barStart: number, mid
     });
   });
   // Stems: a beamed group shares one direction, decided by its note farthest from the middle line.
-  const stems: ("up" | "down")[] = heads.map((hs) => stemFor(hs ? hs.map((h) => staffIndex(h.step, h.octave)) : [], middle));
+  const stems: ("up" | "down")[] = heads.map((hs) => (hs ? stemFor(hs.map(headIndex), middle) : "up"));
   const byBeam = new Map<number, number[]>();
-  beams.forEach((id, i) => {
-    if (id !== undefined) byBeam.set(id, [...(byBeam.get(id) ?? []), i]);
-  });
+  for (let i = 0; i < beams.length; i++) {
+    const id = beams[i];
+    if (id === undefined) continue;
+    const members = byBeam.get(id);
+    if (members) members.push(i);
+    else byBeam.set(id, [i]);
+  }
   for (const members of byBeam.values()) {
-    const all = members.flatMap((i) => (heads[i] ?? []).map((h) => staffIndex(h.step, h.octave)));
+    const all = members.flatMap((i) => (heads[i] ?? []).map(headIndex));
     const dir = stemFor(all, middle);
     for (const i of members) stems[i] = dir;
   }
   return written.map((w, i) => toEvent(p, w, heads[i] ?? null, stems[i]!, beams[i]));
 }
+
+const headIndex = (h: KeysHead) => staffIndex(h.step, h.octave);
 
 function toEvent<T>(p: Prepared, w: Written<T>, heads: readonly Head[] | null, stem: "up" | "down", beam: number | undefined): VoiceEvent {
   const { tb } = p;

@@ -62,12 +62,34 @@ export function makeTimebase(gridStep: Rational, beatUnit: number): Timebase {
   return {
     D,
     ticks(r: Rational): number {
-      const slash = r.indexOf("/");
-      const n = slash < 0 ? Number(r) : Number(r.slice(0, slash));
-      const d = slash < 0 ? 1 : Number(r.slice(slash + 1));
-      if (!Number.isInteger(n) || !Number.isInteger(d) || d <= 0 || D % d !== 0)
-        throw new RhythmError(`position or duration ${r} is not on the ${gridStep} grid`);
-      return n * (D / d);
+      // Hand-rolled parse of "n", "-n" or "n/d" (no substrings: a long song has ~100,000 positions).
+      let i = 0;
+      let sign = 1;
+      if (r.charCodeAt(0) === 45) {
+        sign = -1;
+        i = 1;
+      }
+      let n = 0;
+      let d = 0;
+      let inDen = false;
+      let digits = 0;
+      for (; i < r.length; i++) {
+        const c = r.charCodeAt(i);
+        if (c === 47 && !inDen && digits > 0) {
+          inDen = true;
+          digits = 0;
+        } else if (c >= 48 && c <= 57) {
+          if (inDen) d = d * 10 + (c - 48);
+          else n = n * 10 + (c - 48);
+          digits++;
+        } else {
+          digits = -1;
+          break;
+        }
+      }
+      if (!inDen) d = 1;
+      if (digits <= 0 || d <= 0 || D % d !== 0) throw new RhythmError(`position or duration ${r} is not on the ${gridStep} grid`);
+      return sign * n * (D / d);
     },
     rational(t: number): Rational {
       let s = cache.get(t);

@@ -24,7 +24,7 @@
  */
 import { RhythmError } from "../document";
 import type { NoteValue } from "./model";
-import type { TickValue } from "./durations";
+import { tickValues, type TickValue } from "./durations";
 import { groupIndexAt, type Metric } from "./metric";
 import { gcd, lcm, oddPart, powerOfTwoBelow } from "./timebase";
 
@@ -73,10 +73,10 @@ interface Ctx<T> {
 
 const cache = new Map<number, { values: TickValue[]; byTicks: Map<number, NoteValue> }>();
 
-function valueTables(D: number, make: () => TickValue[]) {
+function valueTables(D: number) {
   let t = cache.get(D);
   if (!t) {
-    const values = make();
+    const values = tickValues(D);
     t = { values, byTicks: new Map(values.map((v) => [v.ticks, v.value])) };
     cache.set(D, t);
   }
@@ -85,20 +85,15 @@ function valueTables(D: number, make: () => TickValue[]) {
 
 /**
  * Spell one voice of a bar.
- * @example spellVoice([{ s: 0, e: 4, note: "x" }, { s: 4, e: 16, note: null }], metric, 16, tickValues(16), { kit: true })
+ * @example spellVoice([{ s: 0, e: 16, note: "x" }, { s: 16, e: 64, note: null }], makeMetric({ beatsPerBar: 4, beatUnit: 4 }, 64), 64, { kit: true })
  */
-export function spellVoice<T>(
-  pieces: readonly Piece<T>[],
-  metric: Metric,
-  D: number,
-  tickValues: () => TickValue[],
-  opts: VoiceOptions,
-): Written<T>[] {
+export function spellVoice<T>(pieces: readonly Piece<T>[], metric: Metric, D: number, opts: VoiceOptions): Written<T>[] {
   const bar = metric.barTicks;
-  if (pieces.every((p) => p.note === null))
-    return [{ s: 0, len: bar, value: { type: "whole", dots: 0 }, note: null, piece: -1, measure: true }];
+  let silent = true;
+  for (const p of pieces) if (p.note !== null) silent = false;
+  if (silent) return [{ s: 0, len: bar, value: WHOLE, note: null, piece: -1, measure: true }];
 
-  const { values, byTicks } = valueTables(D, tickValues);
+  const { values, byTicks } = valueTables(D);
   const ctx: Ctx<T> = { D, metric, values, byTicks, kit: opts.kit, out: [], tupletGroups: 0 };
   const queues: Frag<T>[][] = metric.groups.map(() => []);
 
@@ -132,8 +127,11 @@ export function spellVoice<T>(
     spellRegion(ctx, frags, a, g.end - a, frame);
   });
 
-  return ctx.out.sort((x, y) => x.s - y.s);
+  return ctx.out.sort(byStart);
 }
+
+const WHOLE: NoteValue = { type: "whole", dots: 0 };
+const byStart = (x: { s: number }, y: { s: number }) => x.s - y.s;
 
 /** The longest end x ≤ e of a single value from group start s across group boundaries, or 0. */
 function crossingEnd<T>(ctx: Ctx<T>, gi: number, s: number, e: number, rest: boolean): number {
