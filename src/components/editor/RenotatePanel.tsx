@@ -4,7 +4,7 @@
  * is previewed as notation with the core's proof (`compareGrooves`) before it is applied; applying is one
  * undoable step.
  */
-import { useId, useMemo, useState } from "react";
+import { useEffect, useId, useMemo, useRef, useState } from "react";
 import {
   compareGrooves,
   displaceWithReport,
@@ -49,6 +49,11 @@ export function RenotatePanel() {
   const [problem, setProblem] = useState<string | null>(null);
   const [readings, setReadings] = useState<{ from: GrooveDocument; list: Reading[] } | null>(null);
   const [searching, setSearching] = useState(false);
+
+  const previewRef = useRef<HTMLDivElement>(null);
+  useEffect(() => {
+    if (candidate) previewRef.current?.scrollIntoView?.({ block: "nearest", behavior: "smooth" });
+  }, [candidate]);
 
   const effectiveMode: DisplaceMode = mode === "auto" ? (loop ? "rotate" : "pad") : mode;
   const twins = useMemo(() => rebarTwins(doc.meter), [doc.meter]);
@@ -158,6 +163,9 @@ export function RenotatePanel() {
         </button>
       </div>
       {readings && readings.from === doc && (
+        <p className="tx-hint">Suggested readings, best first (a lower score reads better). Each one is proven to sound the same.</p>
+      )}
+      {readings && readings.from === doc && (
         <ol className="tx-readings" aria-label="Suggested readings, best first">
           {readings.list.map((r, i) => (
             <li key={r.id} className="tx-reading">
@@ -165,7 +173,7 @@ export function RenotatePanel() {
                 <strong>
                   {i + 1}. {r.label}
                 </strong>
-                <span className="num tx-dim"> score {r.score.toFixed(2)} (lower reads better)</span>
+                <span className="num tx-dim"> score {r.score.toFixed(2)}</span>
               </div>
               {r.reasons.length > 0 && (
                 <ul className="tx-reasons">
@@ -189,7 +197,7 @@ export function RenotatePanel() {
         </p>
       )}
       {candidate && (
-        <div className="tx-preview" aria-label={`Preview: ${candidate.label}`}>
+        <div ref={previewRef} className="tx-preview" aria-label={`Preview: ${candidate.label}`}>
           <h3 className="tx-preview-title">Preview: {candidate.label}</h3>
           {candidate.note && <p className="tx-hint">{candidate.note}</p>}
           {stale ? (
