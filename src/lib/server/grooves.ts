@@ -150,7 +150,8 @@ export async function listGrooves(actor: SessionUser | null, query: ListQuery): 
   const admin = actor?.siteRole === "admin";
   const where: SQL[] = [];
   const mine = eq(grooves.ownerId, me);
-  const shared = isNotNull(collaborators.role);
+  // A hashed semi-join: cheaper than joining collaborators to every groove when only the visible ones count.
+  const shared = sql`${grooves.id} in (select ${collaborators.grooveId} from ${collaborators} where ${collaborators.userId} = ${me})`;
   const isPublic = eq(grooves.visibility, "public");
 
   if (query.scope === "trash") {
@@ -167,47 +168,47 @@ export async function listGrooves(actor: SessionUser | null, query: ListQuery): 
   if (query.q) where.push(or(ilike(grooves.title, likePattern(query.q)), ilike(grooves.description, likePattern(query.q)))!);
   if (query.tag) where.push(sql`${grooves.tags} @> array[${query.tag.trim().toLowerCase()}]::text[]`);
   if (query.owner) where.push(eq(grooves.ownerId, query.owner === "me" ? me : query.owner));
+  const condition = and(...where);
 
-  const sortColumn = query.sort === "title" ? sql`lower(${grooves.title})` : query.sort === "created" ? grooves.createdAt : grooves.updatedAt;
+  // Title sorting uses the (lower(title), id) index; times use their own indexes, so a page stops after its rows.
   const order = query.dir === "asc" ? asc : desc;
-  const rows = await db
-    .select({
-      groove: {
-        id: grooves.id,
-        title: grooves.title,
-        description: grooves.description,
-        tags: grooves.tags,
-        visibility: grooves.visibility,
-        ownerId: grooves.ownerId,
-        latestVersionId: grooves.latestVersionId,
-        forkedFromId: grooves.forkedFromId,
-        createdAt: grooves.createdAt,
-        updatedAt: grooves.updatedAt,
-        deletedAt: grooves.deletedAt,
-      },
-      ownerName: owner.displayName,
-      collaboratorRole: collaborators.role,
-      latestNumber: grooveVersions.number,
-      total: sql<number>`count(*) over ()`.mapWith(Number),
-    })
-    .from(grooves)
-    .innerJoin(owner, eq(owner.id, grooves.ownerId))
-    .leftJoin(collaborators, and(eq(collaborators.grooveId, grooves.id), eq(collaborators.userId, me)))
-    .leftJoin(grooveVersions, eq(grooveVersions.id, grooves.latestVersionId))
-    .where(and(...where))
-    .orderBy(order(sortColumn), order(grooves.id))
-    .limit(query.pageSize)
-    .offset((query.page - 1) * query.pageSize);
-
-  let total = rows[0]?.total ?? 0;
-  if (rows.length === 0 && query.page > 1) {
-    const [c] = await db
-      .select({ n: sql<number>`count(*)`.mapWith(Number) })
+  const orderBy =
+    query.sort === "title"
+      ? [order(sql`lower(${grooves.title})`), order(grooves.id)]
+      : query.sort === "created"
+        ? [order(grooves.createdAt), order(grooves.id)]
+        : [order(grooves.updatedAt), order(grooves.id)];
+  const [rows, [counted]] = await Promise.all([
+    db
+      .select({
+        groove: {
+          id: grooves.id,
+          title: grooves.title,
+          description: grooves.description,
+          tags: grooves.tags,
+          visibility: grooves.visibility,
+          ownerId: grooves.ownerId,
+          latestVersionId: grooves.latestVersionId,
+          forkedFromId: grooves.forkedFromId,
+          createdAt: grooves.createdAt,
+          updatedAt: grooves.updatedAt,
+          deletedAt: grooves.deletedAt,
+        },
+        ownerName: owner.displayName,
+        collaboratorRole: collaborators.role,
+        latestNumber: grooveVersions.number,
+      })
       .from(grooves)
+      .innerJoin(owner, eq(owner.id, grooves.ownerId))
       .leftJoin(collaborators, and(eq(collaborators.grooveId, grooves.id), eq(collaborators.userId, me)))
-      .where(and(...where));
-    total = c?.n ?? 0;
-  }
+      .leftJoin(grooveVersions, eq(grooveVersions.id, grooves.latestVersionId))
+      .where(condition)
+      .orderBy(...orderBy)
+      .limit(query.pageSize)
+      .offset((query.page - 1) * query.pageSize),
+    db.select({ n: sql<number>`count(*)`.mapWith(Number) }).from(grooves).where(condition),
+  ]);
+  const total = counted?.n ?? 0;
   const who: Actor | null = actor ? { id: actor.id, siteRole: actor.siteRole } : null;
   return {
     items: rows.map((r) => ({

@@ -79,6 +79,9 @@ export const grooves = pgTable(
     index("grooves_visibility_idx").on(t.visibility),
     index("grooves_tags_idx").using("gin", t.tags),
     index("grooves_updated_idx").on(t.updatedAt),
+    // Library sorting: by title (case-insensitive) and by creation time, with the id as tie-break.
+    index("grooves_title_idx").on(sql`lower(${t.title})`, t.id),
+    index("grooves_created_idx").on(t.createdAt, t.id),
   ],
 );
 
