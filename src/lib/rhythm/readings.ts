@@ -31,7 +31,17 @@ import { barLength, normalizeGroove, type GrooveDocument, type Meter } from "./d
 import { compareGrooves, type Equivalence } from "./equivalence";
 import { spellGroove } from "./notation";
 import { Fraction, q, type Rational, type RationalInput } from "./rational";
-import { countNotation, readabilityFigures, USUAL_TEMPO_RANGE, type NotationCounts, type ReadabilityFigures } from "./readability/figures";
+import {
+  countNotation,
+  figureInput,
+  figuresFrom,
+  readabilityFigures,
+  rotateFigureInput,
+  USUAL_TEMPO_RANGE,
+  type FigureInput,
+  type NotationCounts,
+  type ReadabilityFigures,
+} from "./readability/figures";
 import { displace, rebar, rescale, type DisplaceMode } from "./transforms";
 
 /** One renotation step, serialisable (JSON) so a reading can be stored and replayed. */
@@ -240,6 +250,11 @@ interface Candidate {
   /** Sort key for simplicity: steps, |displacement| as a share of the bar, backwards after forwards. */
   simplicity: [number, number, number];
   build: () => GrooveDocument;
+  /**
+   * Loops only: the figures without building the document (the rescaled material rotated in place, under
+   * the header the steps give). Throws when the steps cannot be written, as the transforms would.
+   */
+  quick?: () => ReadabilityFigures;
 }
 
 function candidates(doc: GrooveDocument, o: Required<Omit<FindReadingsOptions, "limit" | "notation" | "spellTop">>): Candidate[] {
@@ -255,6 +270,10 @@ function candidates(doc: GrooveDocument, o: Required<Omit<FindReadingsOptions, "
     const step = q(scaled.grid.step);
     const perBar = Number(barLength(scaled.meter).div(step).n);
     const meters: (Meter | null)[] = [null, ...(o.rebar ? rebarTwins(scaled.meter) : [])];
+    // The header alone (no material): the transforms' rules on grids, bars, sections and swing still apply.
+    const header: GrooveDocument = { ...scaled, kit: { lanes: [] }, keys: { ...scaled.keys, notes: [] } };
+    let input: FigureInput | null = null;
+    const scaledInput = () => (input ??= figureInput(scaled));
     // Half a bar either way: any other displacement is one of these plus a whole-bar rotation, which only
     // changes the bar the loop starts on.
     for (let j = -Math.floor((perBar - 1) / 2); j <= Math.floor(perBar / 2); j++) {
@@ -265,12 +284,21 @@ function candidates(doc: GrooveDocument, o: Required<Omit<FindReadingsOptions, "
         if (j !== 0) steps.push({ op: "displace", by: by.toFraction(), mode: o.displaceMode });
         if (meter) steps.push({ op: "rebar", meter });
         const rest = steps.filter((s) => s.op !== "rescale");
+        const quick =
+          o.displaceMode === "rotate"
+            ? () => {
+                const h = applySteps(header, rest);
+                const rotated = j === 0 ? scaledInput() : rotateFigureInput(scaledInput(), j);
+                return figuresFrom({ ...rotated, meter: h.meter, tempo: h.tempo, bars: h.bars, step: h.grid.step });
+              }
+            : undefined;
         out.push({
           id: idOf(k, by, meter),
           label: labelOf(k, by, meter),
           steps,
           simplicity: [steps.length, Math.abs(j) / perBar, j < 0 ? 1 : 0],
           build: () => applySteps(scaled, rest),
+          quick,
         });
       }
     }
@@ -280,7 +308,7 @@ function candidates(doc: GrooveDocument, o: Required<Omit<FindReadingsOptions, "
   return out.sort(bySimplicity).slice(0, o.maxCandidates);
 }
 
-type Scored = Candidate & { doc: GrooveDocument; figures: ReadabilityFigures; scoreParts: ScoreParts; score: number };
+type Scored = Candidate & { doc: GrooveDocument | null; figures: ReadabilityFigures; scoreParts: ScoreParts; score: number };
 
 const EPS = 1e-9;
 function byScore(a: Scored, b: Scored): number {
@@ -293,7 +321,7 @@ function byScore(a: Scored, b: Scored): number {
   );
 }
 
-function scored(c: Candidate, doc: GrooveDocument, figures: ReadabilityFigures): Scored {
+function scored(c: Candidate, doc: GrooveDocument | null, figures: ReadabilityFigures): Scored {
   const scoreParts = scoreOf(figures);
   return { ...c, doc, figures, scoreParts, score: sum(scoreParts) };
 }
@@ -318,40 +346,51 @@ export function findReadings(doc: GrooveDocument, options: FindReadingsOptions =
   const notation = options.notation === false ? undefined : (d: GrooveDocument) => countNotation(spellGroove(d));
   const base = readabilityFigures(doc, { notation });
 
-  // Pass 1: build and measure every candidate, without spelling.
+  // Pass 1: measure every candidate without spelling it (loops: without even building it).
   const rough: Scored[] = [];
-  const seen = new Set<string>();
   for (const c of candidates(doc, o)) {
-    let built: GrooveDocument;
     try {
-      built = c.build();
+      if (c.quick) rough.push(scored(c, null, c.quick()));
+      else {
+        const built = c.build();
+        rough.push(scored(c, built, readabilityFigures(built)));
+      }
     } catch {
       continue; // this step cannot be written (the transform says why)
     }
-    // Periodic grooves give the same document from different steps: keep the simplest.
-    const key = JSON.stringify(normalizeGroove(built));
-    if (seen.has(key)) continue;
-    seen.add(key);
-    rough.push(scored(c, built, readabilityFigures(built)));
   }
   rough.sort(byScore);
 
-  // Pass 2: spell, score in full and prove the best, batch by batch, until `limit` readings are proven.
+  // Pass 2: build, spell, score in full and prove the best, batch by batch, until `limit` readings are proven.
+  // Periodic grooves give the same document from different steps: only the simplest is returned (equal
+  // documents score equally, so the simplest of them comes first).
+  const seen = new Set<string>();
   const readings: (Reading & { simplicity: Candidate["simplicity"] })[] = [];
   for (let from = 0; from < rough.length && readings.length < limit; from += batchSize) {
-    const batch = rough
-      .slice(from, from + batchSize)
-      .map((r) => (notation ? scored(r, r.doc, r.steps.length === 0 ? base : readabilityFigures(r.doc, { notation })) : r))
-      .sort(byScore);
+    const batch: Scored[] = [];
+    for (const r of rough.slice(from, from + batchSize)) {
+      let built: GrooveDocument;
+      try {
+        built = r.doc ?? r.build();
+      } catch {
+        continue; // the material itself cannot be moved so (e.g. two notes would collide)
+      }
+      batch.push(scored(r, built, r.steps.length === 0 ? base : readabilityFigures(built, { notation })));
+    }
+    batch.sort(byScore);
     for (const s of batch) {
       if (readings.length >= limit) break;
-      const equivalence = compareGrooves(doc, s.doc);
+      const built = s.doc!;
+      const key = JSON.stringify(normalizeGroove(built));
+      if (seen.has(key)) continue;
+      seen.add(key);
+      const equivalence = compareGrooves(doc, built);
       if (equivalence.verdict !== "identical" && equivalence.verdict !== "offset") continue;
       readings.push({
         id: s.id,
         label: s.label,
         steps: s.steps,
-        doc: s.doc,
+        doc: built,
         figures: s.figures,
         score: s.score,
         scoreParts: s.scoreParts,

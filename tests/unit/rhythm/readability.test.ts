@@ -1,8 +1,15 @@
+import { fc, test } from "@fast-check/vitest";
 import { describe, expect, it } from "vitest";
 import {
   assertGroove,
+  barLength,
   countNotation,
+  displace,
   emptyGroove,
+  figureInput,
+  figuresFrom,
+  q,
+  rotateFigureInput,
   lhlSyncopation,
   metricalHierarchy,
   readabilityFigures,
@@ -10,6 +17,7 @@ import {
   type GrooveDocumentInput,
   type NotationScore,
 } from "../../../src/lib/rhythm";
+import { loopArb } from "./arbitraries";
 
 type Lane = { piece: string; hits: { at: string }[] };
 const hits = (...at: string[]) => at.map((a) => ({ at: a }));
@@ -140,5 +148,19 @@ describe("readability figures", () => {
     expect(readabilityFigures(rockBeat()).notation).toBeNull();
     expect(readabilityFigures(rockBeat(), { notation: () => ({ notes: 1, rests: 2, ties: 3 }) }).notation).toEqual({ notes: 1, rests: 2, ties: 3 });
     expect(readabilityFigures(rockBeat(), { notation: () => { throw new Error("no"); } }).notation).toBeNull();
+  });
+});
+
+describe("figures of a rotation without building it", () => {
+  // The reading finder measures rotations of a loop from the extracted onsets; they must be the figures of
+  // the document that displace(…, "rotate") builds.
+  test.prop([
+    loopArb({ maxBars: 3, swing: false }).chain((d) => {
+      const perLoop = Number(barLength(d.meter).mul(d.bars).div(q(d.grid.step)).n);
+      return fc.tuple(fc.constant(d), fc.integer({ min: -perLoop + 1, max: perLoop - 1 }));
+    }),
+  ])("equal the figures of the rotated document", ([d, j]) => {
+    const built = displace(d, q(d.grid.step).mul(j).toFraction(), "rotate");
+    expect(figuresFrom(rotateFigureInput(figureInput(d), j))).toEqual(readabilityFigures(built));
   });
 });

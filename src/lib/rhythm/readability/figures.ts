@@ -7,10 +7,10 @@
  * the kick on the downbeat, the tempo inside the usual range, and how busy the page is (notes, rests, ties
  * from the notation spelling when a speller is given, events per bar).
  */
-import type { GrooveDocument } from "../document";
+import type { GrooveDocument, Meter, Tempo } from "../document";
 import { KIT_PIECES, type KitPieceId } from "../kit";
 import type { NotationScore } from "../notation/model";
-import { q, toNumber } from "../rational";
+import { q, toNumber, type Rational } from "../rational";
 import { metricalHierarchy, type MetricalHierarchy } from "./metrical-weights";
 import { anticipations, lhlSyncopation, offBeatness, wnbd } from "./syncopation";
 
@@ -101,8 +101,47 @@ export function countNotation(score: NotationScore): NotationCounts {
 }
 
 /** The hierarchy a document is measured on. */
-export function documentHierarchy(doc: GrooveDocument): MetricalHierarchy {
+export function documentHierarchy(doc: Pick<GrooveDocument, "meter" | "grid" | "tempo">): MetricalHierarchy {
   return metricalHierarchy(doc.meter, doc.grid.step, doc.tempo.beatNote);
+}
+
+/**
+ * What the figures are computed from: the document's header and its onsets as whole numbers of grid steps
+ * from the start. Separate from the document so a rotation can be measured without rebuilding it.
+ */
+export interface FigureInput {
+  meter: Meter;
+  tempo: Tempo;
+  step: Rational;
+  bars: number;
+  /** Onset positions in grid steps, per part, sorted, each once (chords and simultaneous hits count once). */
+  onsets: Record<PartName, number[]>;
+  /** Positions of snare and cross-stick hits (the backbeat pieces), in grid steps. */
+  backbeat: number[];
+  /** Positions of kick hits, in grid steps. */
+  kick: number[];
+  /** Kit hits plus keys notes that start a sound. */
+  events: number;
+}
+
+/**
+ * Converts canonical rational strings to whole numbers of `unit` (a rational a/b): "n/d" is n·b/(d·a), in plain
+ * integer arithmetic, much faster than parsing fractions on long songs; falls back to exact fractions.
+ */
+function counter(unit: Rational): (at: string) => number {
+  const u = q(unit);
+  const a = Number(u.n);
+  const b = Number(u.d);
+  return (at: string) => {
+    const slash = at.indexOf("/");
+    const n = slash < 0 ? Number(at) : Number(at.slice(0, slash));
+    const d = slash < 0 ? 1 : Number(at.slice(slash + 1));
+    const x = (n * b) / (d * a);
+    if (Number.isSafeInteger(x) && Number.isSafeInteger(n * b)) return x;
+    const exact = q(at).div(u);
+    if (exact.d !== 1n) throw new RangeError(`position ${at} is not on the ${unit} grid`);
+    return Number(exact.s * exact.n);
+  };
 }
 
 /** Keys notes that start a sound: a note marked as continuing from the end of the loop (written by a rotation) does not. */
@@ -110,23 +149,65 @@ function onsetNotes(doc: GrooveDocument) {
   return doc.keys.notes.filter((n) => (n as { tiedFromEnd?: boolean }).tiedFromEnd !== true);
 }
 
-/** Onset pulses of each part (chords and simultaneous kit hits count once; the written bars are a loop). */
-export function partOnsets(doc: GrooveDocument, h: MetricalHierarchy = documentHierarchy(doc)): Record<PartName, number[]> {
-  const toPulse = (at: string) => Number(q(at).div(h.pulse).n);
-  const sets: Record<PartName, Set<number>> = { hands: new Set(), feet: new Set(), keys: new Set() };
+const sortedUnique = (xs: Iterable<number>) => [...new Set(xs)].sort((a, b) => a - b);
+
+/** Extract what the figures need from a document. */
+export function figureInput(doc: GrooveDocument): FigureInput {
+  const toStep = counter(doc.grid.step);
+  const hands: number[] = [];
+  const feet: number[] = [];
+  const backbeat: number[] = [];
+  const kick: number[] = [];
+  let events = 0;
   for (const lane of doc.kit.lanes) {
-    const set = KIT_PIECES[lane.piece].limb === "foot" ? sets.feet : sets.hands;
-    for (const hit of lane.hits) set.add(toPulse(hit.at));
+    const part = KIT_PIECES[lane.piece].limb === "foot" ? feet : hands;
+    const landmark = BACKBEAT_PIECES.includes(lane.piece) ? backbeat : lane.piece === "kick" ? kick : null;
+    for (const hit of lane.hits) {
+      const p = toStep(hit.at);
+      part.push(p);
+      landmark?.push(p);
+    }
+    events += lane.hits.length;
   }
-  for (const n of onsetNotes(doc)) sets.keys.add(toPulse(n.at));
-  const sorted = (s: Set<number>) => [...s].sort((a, b) => a - b);
-  return { hands: sorted(sets.hands), feet: sorted(sets.feet), keys: sorted(sets.keys) };
+  const notes = onsetNotes(doc);
+  events += notes.length;
+  return {
+    meter: doc.meter,
+    tempo: doc.tempo,
+    step: doc.grid.step,
+    bars: doc.bars,
+    onsets: { hands: sortedUnique(hands), feet: sortedUnique(feet), keys: sortedUnique(notes.map((n) => toStep(n.at))) },
+    backbeat,
+    kick,
+    events,
+  };
 }
 
-function measure(onsets: number[], h: MetricalHierarchy, bars: number): SyncopationFigures {
+/**
+ * The input of the same material rotated by `steps` grid steps inside the loop (positive = later), as
+ * `displace(doc, steps × step, "rotate")` would place it.
+ * @example rotateFigureInput(figureInput(doc), 2)
+ */
+export function rotateFigureInput(input: FigureInput, steps: number): FigureInput {
+  const total = Number(q(input.meter.beatsPerBar).div(input.meter.beatUnit).mul(input.bars).div(q(input.step)).n);
+  const rot = (xs: number[]) => xs.map((x) => (((x + steps) % total) + total) % total);
+  return {
+    ...input,
+    onsets: { hands: sortedUnique(rot(input.onsets.hands)), feet: sortedUnique(rot(input.onsets.feet)), keys: sortedUnique(rot(input.onsets.keys)) },
+    backbeat: rot(input.backbeat),
+    kick: rot(input.kick),
+  };
+}
+
+/** Onset pulses of each part (chords and simultaneous kit hits count once; the written bars are a loop). */
+export function partOnsets(doc: GrooveDocument, h: MetricalHierarchy = documentHierarchy(doc)): Record<PartName, number[]> {
+  const input = figureInput(doc);
+  const k = Number(q(doc.grid.step).div(h.pulse).n);
+  return { hands: input.onsets.hands.map((x) => x * k), feet: input.onsets.feet.map((x) => x * k), keys: input.onsets.keys.map((x) => x * k) };
+}
+
+function measure(onsets: number[], h: MetricalHierarchy, bars: number, beats: number[]): SyncopationFigures {
   const cycle = h.pulsesPerBar * bars;
-  const beats: number[] = [];
-  for (let b = 0; b < bars; b++) for (const p of h.beats) beats.push(b * h.pulsesPerBar + p);
   const l = lhlSyncopation(onsets, cycle, (p) => h.weights[p % h.pulsesPerBar]!);
   return {
     onsets: onsets.length,
@@ -139,16 +220,19 @@ function measure(onsets: number[], h: MetricalHierarchy, bars: number): Syncopat
 }
 
 /**
- * All readability figures of a document.
- * @example readabilityFigures(doc).parts.keys.anticipations // 6
+ * The figures of an extracted input (see `figureInput`), with notation counts when known.
+ * @example figuresFrom(rotateFigureInput(figureInput(doc), 2), null).backbeat.share
  */
-export function readabilityFigures(doc: GrooveDocument, options: FiguresOptions = {}): ReadabilityFigures {
-  const h = documentHierarchy(doc);
-  const onsets = partOnsets(doc, h);
+export function figuresFrom(input: FigureInput, notation: NotationCounts | null = null): ReadabilityFigures {
+  const h = metricalHierarchy(input.meter, input.step, input.tempo.beatNote);
+  const k = Number(q(input.step).div(h.pulse).n); // pulses per grid step
+  const toPulses = (xs: number[]) => xs.map((x) => x * k);
+  const beats: number[] = [];
+  for (let b = 0; b < input.bars; b++) for (const p of h.beats) beats.push(b * h.pulsesPerBar + p);
   const parts = {
-    hands: measure(onsets.hands, h, doc.bars),
-    feet: measure(onsets.feet, h, doc.bars),
-    keys: measure(onsets.keys, h, doc.bars),
+    hands: measure(toPulses(input.onsets.hands), h, input.bars, beats),
+    feet: measure(toPulses(input.onsets.feet), h, input.bars, beats),
+    keys: measure(toPulses(input.onsets.keys), h, input.bars, beats),
   };
   const all = Object.values(parts);
   const totalOnsets = all.reduce((s, p) => s + p.onsets, 0);
@@ -162,42 +246,31 @@ export function readabilityFigures(doc: GrooveDocument, options: FiguresOptions 
   };
 
   // Bar-by-bar landmarks, on pulse positions within each bar.
-  const barOf = (pulse: number) => Math.floor(pulse / h.pulsesPerBar);
-  const toPulse = (at: string) => Number(q(at).div(h.pulse).n);
-  const snareBars = new Map<number, Set<number>>();
-  const kickBars = new Map<number, Set<number>>();
-  for (const lane of doc.kit.lanes) {
-    const target = BACKBEAT_PIECES.includes(lane.piece) ? snareBars : lane.piece === "kick" ? kickBars : null;
-    if (!target) continue;
-    for (const hit of lane.hits) {
-      const p = toPulse(hit.at);
-      const bar = barOf(p);
-      if (!target.has(bar)) target.set(bar, new Set());
-      target.get(bar)!.add(p % h.pulsesPerBar);
+  const byBar = (xs: number[]) => {
+    const bars = new Map<number, Set<number>>();
+    for (const x of xs) {
+      const p = x * k;
+      const bar = Math.floor(p / h.pulsesPerBar);
+      if (!bars.has(bar)) bars.set(bar, new Set());
+      bars.get(bar)!.add(p % h.pulsesPerBar);
     }
-  }
+    return bars;
+  };
+  const snareBars = byBar(input.backbeat);
+  const kickBars = byBar(input.kick);
   let barsWithBackbeat = 0;
   if (h.weakBeats.length > 0)
     for (const set of snareBars.values()) if (h.weakBeats.every((p) => set.has(p))) barsWithBackbeat++;
   let barsWithKickOnOne = 0;
   for (const set of kickBars.values()) if (set.has(0)) barsWithKickOnOne++;
 
-  const bpm = toNumber(doc.tempo.bpm);
-  const events = doc.kit.lanes.reduce((s, l) => s + l.hits.length, 0) + onsetNotes(doc).length;
-  let notation: NotationCounts | null = null;
-  if (options.notation) {
-    try {
-      notation = options.notation(doc);
-    } catch {
-      notation = null;
-    }
-  }
+  const bpm = toNumber(input.tempo.bpm);
   return {
-    meter: `${doc.meter.beatsPerBar}/${doc.meter.beatUnit}`,
-    bars: doc.bars,
+    meter: `${input.meter.beatsPerBar}/${input.meter.beatUnit}`,
+    bars: input.bars,
     tempo: {
       bpm,
-      beatNote: doc.tempo.beatNote,
+      beatNote: input.tempo.beatNote,
       inUsualRange: bpm >= USUAL_TEMPO_RANGE.min && bpm <= USUAL_TEMPO_RANGE.max,
       range: USUAL_TEMPO_RANGE,
     },
@@ -211,6 +284,22 @@ export function readabilityFigures(doc: GrooveDocument, options: FiguresOptions 
       share: snareBars.size === 0 || h.weakBeats.length === 0 ? null : barsWithBackbeat / snareBars.size,
     },
     downbeatKick: { barsWithKickOnOne, barsWithKick: kickBars.size, share: kickBars.size === 0 ? null : barsWithKickOnOne / kickBars.size },
-    density: { events, perBar: events / doc.bars },
+    density: { events: input.events, perBar: input.events / input.bars },
   };
+}
+
+/**
+ * All readability figures of a document.
+ * @example readabilityFigures(doc).parts.keys.anticipations // 6
+ */
+export function readabilityFigures(doc: GrooveDocument, options: FiguresOptions = {}): ReadabilityFigures {
+  let notation: NotationCounts | null = null;
+  if (options.notation) {
+    try {
+      notation = options.notation(doc);
+    } catch {
+      notation = null; // a document the speller cannot write is still measured
+    }
+  }
+  return figuresFrom(figureInput(doc), notation);
 }
