@@ -139,6 +139,7 @@ export interface EditorActions {
   cycleAtCursor(): void;
   clearAtCursor(): void;
   setKeysRange(range: { low: number; high: number }): void;
+  setKeysOpen(open: boolean): void;
   notify(n: Omit<Notice, "id">): void;
   dismissNotice(): void;
   setSheetOpen(open: boolean): void;
@@ -158,6 +159,8 @@ export interface EditorState {
   selection: BarRange | null;
   clipboard: BarClip | null;
   keysRange: { low: number; high: number };
+  /** Whether the keys lane is shown (the cursor does not go into a hidden lane). */
+  keysOpen: boolean;
   notice: Notice | null;
   sheetOpen: boolean;
   playing: boolean;
@@ -427,7 +430,7 @@ export function createEditorStore(init: EditorInit): EditorStore {
             const col = Math.max(0, Math.min(cols - 1, c.col + dCol));
             if (c.area === "kit") {
               const row = c.row + dRow;
-              if (row >= lanes && rows.length > 0) set({ cursor: { area: "keys", pitch: rows[0]!, col } });
+              if (row >= lanes && rows.length > 0 && s.keysOpen) set({ cursor: { area: "keys", pitch: rows[0]!, col } });
               else set({ cursor: { area: "kit", row: Math.max(0, Math.min(lanes - 1, row)), col } });
             } else {
               const i = rows.indexOf(c.pitch) + dRow;
@@ -474,6 +477,10 @@ export function createEditorStore(init: EditorInit): EditorStore {
             if (lane && hitAt(doc(), lane.piece, at(c.col))) actions.toggleHit(lane.piece, c.col);
           },
           setKeysRange: (keysRange) => set({ keysRange }),
+          setKeysOpen(keysOpen) {
+            const c = get().cursor;
+            set(!keysOpen && c.area === "keys" ? { keysOpen, cursor: { area: "kit", row: Math.max(0, get().doc.kit.lanes.length - 1), col: c.col } } : { keysOpen });
+          },
           notify: (n) => set({ notice: notice(n) }),
           dismissNotice: () => set({ notice: null }),
           setSheetOpen: (sheetOpen) => set({ sheetOpen }),
@@ -492,6 +499,7 @@ export function createEditorStore(init: EditorInit): EditorStore {
           selection: null,
           clipboard: null,
           keysRange: { ...DEFAULT_KEYS_RANGE },
+          keysOpen: true,
           notice: null,
           sheetOpen: false,
           playing: false,

@@ -3,7 +3,7 @@
  * drag right to stretch; several pitches at one step make a chord. A press on a note without moving
  * removes it. Touch: a tap adds or removes; the Longer / Shorter buttons change the note at the cursor.
  */
-import { memo, useEffect, useId, useMemo, useRef, useState, type PointerEvent as ReactPointerEvent } from "react";
+import { memo, useEffect, useId, useMemo, useRef, type PointerEvent as ReactPointerEvent } from "react";
 import { useShallow } from "zustand/react/shallow";
 import { q, type KeyNote } from "../../lib/rhythm";
 import { keyNoteAt } from "../../lib/rhythm/editing";
@@ -90,12 +90,13 @@ export function KeysLane({ columns, shade }: { columns: GridColumn[]; shade: boo
   const gridRef = useRef<HTMLDivElement>(null);
   const dragging = useRef(false);
   const touch = useRef<{ pitch: number; col: number } | null>(null);
-  const [open, setOpen] = useState(true);
+  const open = useEditor((s) => s.keysOpen);
   const gridId = useId();
 
   useEffect(() => {
     const grid = gridRef.current;
-    if (!grid || cursor.area !== "keys" || !grid.contains(document.activeElement)) return;
+    // Follow the cursor when the focus is anywhere in the grids (arrow keys cross from the kit into the keys).
+    if (!grid || cursor.area !== "keys" || !grid.closest(".tx-canvas")?.contains(document.activeElement)) return;
     const cell = grid.querySelector<HTMLElement>(`[data-pcell][data-pitch="${cursor.pitch}"][data-col="${cursor.col}"]`);
     if (cell && cell !== document.activeElement) cell.focus();
   }, [cursor]);
@@ -153,7 +154,7 @@ export function KeysLane({ columns, shade }: { columns: GridColumn[]; shade: boo
     <div className="tx-keys">
       <div className="tx-keys-tools">
         <span className="tx-keys-title">Keys</span>
-        <button type="button" className="tx-btn is-small is-quiet" aria-expanded={open} aria-controls={gridId} onClick={() => setOpen(!open)}>
+        <button type="button" className="tx-btn is-small is-quiet" aria-expanded={open} aria-controls={gridId} onClick={() => actions.setKeysOpen(!open)}>
           {open ? "Hide the keys lane" : "Show the keys lane"}
         </button>
         <button type="button" className="tx-btn is-small" onClick={() => shift(12)} disabled={range.high >= 127}>

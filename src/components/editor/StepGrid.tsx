@@ -40,7 +40,7 @@ export function StepGrid({ columns, shade, menuRef }: StepGridProps) {
   // Keep DOM focus on the cursor cell while the grid has focus (roving tabindex).
   useEffect(() => {
     const grid = gridRef.current;
-    if (!grid || cursor.area !== "kit" || !grid.contains(document.activeElement)) return;
+    if (!grid || cursor.area !== "kit" || !grid.closest(".tx-canvas")?.contains(document.activeElement)) return;
     const cell = grid.querySelector<HTMLElement>(`[data-kcell][data-row="${cursor.row}"][data-col="${cursor.col}"]`);
     if (cell && cell !== document.activeElement) cell.focus();
   }, [cursor]);

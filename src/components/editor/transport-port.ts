@@ -38,6 +38,15 @@ export type TransportModule = { createTransport?: () => TransportHandle | Promis
 // Vite resolves this at build time; when the adapter file does not exist yet the map is empty.
 const adapters = import.meta.glob<TransportModule>("../../adapters/tone/index.ts");
 
+// The adapter's tiny unlock module (no Tone.js inside) is bundled eagerly: some browsers let audio start only
+// synchronously inside the user's gesture, before the lazy import of the adapter has finished.
+const unlockers = import.meta.glob<{ primeAudio?: () => void }>("../../adapters/tone/unlock.ts", { eager: true });
+
+/** Create and resume the audio context now, inside the gesture (no-op without the adapter). */
+function primeAudio(): void {
+  for (const m of Object.values(unlockers)) m.primeAudio?.();
+}
+
 /** Whether an audio adapter is part of this build. */
 export const audioAvailable = Object.keys(adapters).length > 0;
 
@@ -89,6 +98,7 @@ export function createTransportController(store: EditorStore, load: () => Promis
     available,
     async play() {
       const { actions } = store.getState();
+      if (load === loadAdapter) primeAudio();
       if (!available) {
         actions.notify({ tone: "info", title: "Audio playback is not part of this build yet", lines: [], undoable: false });
         return;

@@ -119,6 +119,25 @@ describe("step grid", () => {
 });
 
 describe("keys lane", () => {
+  it("arrow keys cross from the kit rows into the keys rows, where Enter and Shift+→ write a note", () => {
+    renderEditor();
+    cell(2, 0).focus();
+    key("ArrowDown");
+    expect(document.activeElement).toBe(keyCell(71, 0));
+    key("ArrowDown");
+    key("Enter");
+    key("ArrowRight", { shiftKey: true });
+    key("ArrowRight", { shiftKey: true });
+    expect(keyCell(70, 0).getAttribute("aria-label")).toBe("Keys A♯4, bar 1, beat 1: note, 3 steps long");
+    key("ArrowUp");
+    key("ArrowUp");
+    expect(document.activeElement).toBe(cell(2, 0));
+    // A hidden keys lane is skipped.
+    fireEvent.click(screen.getByRole("button", { name: "Hide the keys lane" }));
+    key("ArrowDown");
+    expect(document.activeElement).toBe(cell(2, 0));
+  });
+
   it("press-and-drag writes a note with length; chords stack; a press on a note removes it", () => {
     renderEditor();
     fireEvent.pointerDown(keyCell(60, 0), { button: 0, pointerType: "mouse" });
