@@ -4,6 +4,8 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Page } from "playwright-core";
 import { launchBrowser, openPage, type Browser } from "./helpers";
+import { DEMO_GROOVES } from "../../src/lib/demo/grooves";
+import { assertGroove } from "../../src/lib/rhythm/document";
 
 const cell = (page: Page, row: number, col: number) => page.locator(`[data-kcell][data-row="${row}"][data-col="${col}"]`);
 const keyCell = (page: Page, pitch: number, col: number) => page.locator(`[data-pcell][data-pitch="${pitch}"][data-col="${col}"]`);
@@ -114,6 +116,26 @@ describe("editor in chromium", () => {
     expect(await keyCell(page, 64, 0).getAttribute("aria-label")).toMatch(/1 step long$/);
     await page.close();
     expect(errors).toEqual([]);
+  });
+
+  it("opens a saved groove's latest version for editing, and answers 404 for an unknown one", async () => {
+    // A public demo groove seeded by `npm test`; a signed-out visitor may try changes but not save them.
+    const demo = DEMO_GROOVES.find((g) => g.visibility === "public")!;
+    const doc = assertGroove(demo.document);
+    const { page, status, errors } = await openPage(browser, `/grooves/${demo.id}/edit`);
+    expect(status).toBe(200);
+    await ready(page);
+    expect(await page.getByRole("heading", { level: 1 }).textContent()).toBe(demo.title);
+    expect(await page.getByText("only the owner and the editors of this groove can save versions").isVisible()).toBe(true);
+    // Every hit of the stored document is on the grid, and nothing else.
+    const hits = doc.kit.lanes.reduce((n, l) => n + l.hits.length, 0);
+    const shown = await page.locator("[data-kcell]").evaluateAll((cells) => cells.filter((c) => !/: empty$/.test(c.getAttribute("aria-label") ?? "")).length);
+    expect(shown).toBe(hits);
+    await page.close();
+    expect(errors).toEqual([]);
+    const missing = await openPage(browser, "/grooves/no-such-groove/edit");
+    expect(missing.status).toBe(404);
+    await missing.page.close();
   });
 
   it("asks a signed-out visitor to sign in when saving, keeping the draft", async () => {
