@@ -139,11 +139,19 @@ describe("soft delete and restore", () => {
     expect((await api("GET", `/api/grooves/${g.grooveId}/versions`, { cookie })).body.items).toHaveLength(2);
   });
 
-  it("cannot restore after 30 days", async () => {
+  it("cannot restore after 30 days, and purges such grooves", async () => {
     const g = await createGroove(owner.id, { deletedAt: new Date(Date.now() - 31 * 24 * 3600_000) });
     const r = await api("POST", `/api/grooves/${g.grooveId}/restore`, { cookie });
     expect(r.status).toBe(404);
     errorOf(r);
+    // Showing the trash purges it for good (with its versions); a groove in its 30 days stays.
+    const recent = await createGroove(owner.id, { deletedAt: new Date(Date.now() - 29 * 24 * 3600_000) });
+    const trash = await api("GET", "/api/grooves?scope=trash&pageSize=100", { cookie });
+    expect(trash.body.items.map((i: { id: string }) => i.id)).toContain(recent.grooveId);
+    expect(trash.body.items.map((i: { id: string }) => i.id)).not.toContain(g.grooveId);
+    expect((await db().query("select count(*)::int as n from grooves where id = $1", [g.grooveId])).rows[0].n).toBe(0);
+    expect((await db().query("select count(*)::int as n from groove_versions where groove_id = $1", [g.grooveId])).rows[0].n).toBe(0);
+    expect((await db().query("select count(*)::int as n from grooves where id = $1", [recent.grooveId])).rows[0].n).toBe(1);
   });
 });
 

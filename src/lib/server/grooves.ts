@@ -156,6 +156,8 @@ export async function listGrooves(actor: SessionUser | null, query: ListQuery): 
 
   if (query.scope === "trash") {
     if (!actor) throw new ApiError(401, "unauthenticated", "Sign in first.");
+    // Housekeeping where it is visible: grooves past their 30 days leave for good before the trash is shown.
+    await purgeExpiredGrooves();
     where.push(isNotNull(grooves.deletedAt), sql`${grooves.deletedAt} > now() - interval '30 days'`);
     if (!admin) where.push(mine);
   } else {
