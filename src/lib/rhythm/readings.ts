@@ -29,14 +29,13 @@
  */
 import { barLength, normalizeGroove, type GrooveDocument, type Meter } from "./document";
 import { compareGrooves, type Equivalence } from "./equivalence";
-import { spellGroove } from "./notation";
 import { Fraction, q, type Rational, type RationalInput } from "./rational";
 import {
-  countNotation,
   figureInput,
   figuresFrom,
   readabilityFigures,
   rotateFigureInput,
+  spelledCounts,
   USUAL_TEMPO_RANGE,
   type FigureInput,
   type NotationCounts,
@@ -343,7 +342,7 @@ export function findReadings(doc: GrooveDocument, options: FindReadingsOptions =
   } satisfies Required<Omit<FindReadingsOptions, "limit" | "notation" | "spellTop">>;
   const limit = options.limit ?? 10;
   const batchSize = Math.max(1, options.spellTop ?? Math.max(24, 2 * limit));
-  const notation = options.notation === false ? undefined : (d: GrooveDocument) => countNotation(spellGroove(d));
+  const notation = options.notation === false ? false : spelledCounts;
   const base = readabilityFigures(doc, { notation });
 
   // Pass 1: measure every candidate without spelling it (loops: without even building it).
@@ -353,7 +352,7 @@ export function findReadings(doc: GrooveDocument, options: FindReadingsOptions =
       if (c.quick) rough.push(scored(c, null, c.quick()));
       else {
         const built = c.build();
-        rough.push(scored(c, built, readabilityFigures(built)));
+        rough.push(scored(c, built, readabilityFigures(built, { notation: false })));
       }
     } catch {
       continue; // this step cannot be written (the transform says why)

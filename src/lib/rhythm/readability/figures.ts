@@ -4,12 +4,13 @@
  * Per part (kit hands, kit feet, keys) and overall: Longuet-Higgins & Lee syncopation, WNBD, off-beatness and
  * anticipations (see syncopation.ts), computed on onsets over the written bars played as a loop. Then the
  * common-practice landmarks: the backbeat (snare or cross-stick on the weak beats of each bar, 2 and 4 in 4/4),
- * the kick on the downbeat, the tempo inside the usual range, and how busy the page is (notes, rests, ties
- * from the notation spelling when a speller is given, events per bar).
+ * the kick on the downbeat, the tempo inside the usual range, and how busy the page is (notes, rests and ties
+ * of the notation spelling, events per bar).
  */
 import type { GrooveDocument, Meter, Tempo } from "../document";
 import { KIT_PIECES, type KitPieceId } from "../kit";
 import type { NotationScore } from "../notation/model";
+import { spellGroove } from "../notation/spell";
 import { q, toNumber, type Rational } from "../rational";
 import { metricalHierarchy, type MetricalHierarchy } from "./metrical-weights";
 import { anticipations, lhlSyncopation, offBeatness, wnbd } from "./syncopation";
@@ -72,8 +73,19 @@ export interface ReadabilityFigures {
 }
 
 export interface FiguresOptions {
-  /** Spells the document and counts its notes, rests and ties (pass the notation module's counter). */
-  notation?: (doc: GrooveDocument) => NotationCounts | null;
+  /**
+   * How to count notes, rests and ties: by default the document is spelled with `spellGroove`; pass another
+   * counter, or `false` to skip spelling (faster; `notation` is then null).
+   */
+  notation?: ((doc: GrooveDocument) => NotationCounts | null) | false;
+}
+
+/**
+ * Notes, rests and ties of a document as `spellGroove` writes it.
+ * @example spelledCounts(doc) // { notes: 46, rests: 18, ties: 0 }
+ */
+export function spelledCounts(doc: GrooveDocument): NotationCounts {
+  return countNotation(spellGroove(doc));
 }
 
 /**
@@ -294,9 +306,10 @@ export function figuresFrom(input: FigureInput, notation: NotationCounts | null 
  */
 export function readabilityFigures(doc: GrooveDocument, options: FiguresOptions = {}): ReadabilityFigures {
   let notation: NotationCounts | null = null;
-  if (options.notation) {
+  const count = options.notation ?? spelledCounts;
+  if (count) {
     try {
-      notation = options.notation(doc);
+      notation = count(doc);
     } catch {
       notation = null; // a document the speller cannot write is still measured
     }
