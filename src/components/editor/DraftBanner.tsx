@@ -8,6 +8,8 @@ export interface DraftInfo {
   scratch: boolean;
   /** The browser refused to store the draft (private mode, full storage). */
   storageFailed: boolean;
+  /** The restored draft was made on an older version than the one now saved. */
+  olderBase: boolean;
 }
 
 export function DraftBanner({ info, onDiscard }: { info: DraftInfo; onDiscard: () => void }) {
@@ -30,6 +32,7 @@ export function DraftBanner({ info, onDiscard }: { info: DraftInfo; onDiscard: (
     <div className="tx-draft" role="status">
       <span>
         Restored your unsaved changes from <time dateTime={new Date(info.restoredAt).toISOString()}>{when}</time>.
+        {info.olderBase && " They were made on an earlier version; someone has saved since, so saving will ask you to compare first."}
       </span>
       <button type="button" className="tx-btn is-small is-quiet" onClick={onDiscard}>
         {info.scratch ? "Start over" : "Discard them"}

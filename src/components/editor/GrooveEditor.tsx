@@ -40,7 +40,7 @@ export default function GrooveEditor(props: GrooveEditorProps) {
     // One store for the island's lifetime: props are the initial state only.
     // eslint-disable-next-line react-hooks/exhaustive-deps
   }, []);
-  const [draft, setDraft] = useState<DraftInfo>({ restoredAt: null, scratch: props.grooveId === null, storageFailed: false });
+  const [draft, setDraft] = useState<DraftInfo>({ restoredAt: null, scratch: props.grooveId === null, storageFailed: false, olderBase: false });
 
   // Restore the draft after hydration (the server cannot see browser storage), then keep it.
   useEffect(() => {
@@ -51,9 +51,12 @@ export default function GrooveEditor(props: GrooveEditorProps) {
       return;
     }
     const saved = loadDraft(storage, props.grooveId);
-    if (saved && (props.grooveId === null || saved.baseVersionId === props.baseVersionId)) {
-      store.getState().actions.loadDocument(saved.doc);
-      setDraft((d) => ({ ...d, restoredAt: saved.savedAt }));
+    if (saved) {
+      // A draft made on an older version keeps that version as its base, so saving it reports the conflict
+      // instead of quietly writing over the newer version.
+      const older = props.grooveId !== null && saved.baseVersionId !== props.baseVersionId;
+      store.getState().actions.loadDocument(saved.doc, older ? { baseVersionId: saved.baseVersionId } : {});
+      setDraft((d) => ({ ...d, restoredAt: saved.savedAt, olderBase: older }));
     }
     const keeper = keepDraft(store, storage, { onWrite: (ok) => setDraft((d) => (d.storageFailed === !ok ? d : { ...d, storageFailed: !ok })) });
     const flush = () => keeper.flush();
@@ -69,8 +72,8 @@ export default function GrooveEditor(props: GrooveEditorProps) {
   const discardDraft = () => {
     const storage = browserStorage();
     if (storage) clearDraft(storage, props.grooveId);
-    services.store.getState().actions.loadDocument(props.doc, { saved: props.grooveId !== null });
-    setDraft((d) => ({ ...d, restoredAt: null }));
+    services.store.getState().actions.loadDocument(props.doc, { saved: props.grooveId !== null, baseVersionId: props.baseVersionId });
+    setDraft((d) => ({ ...d, restoredAt: null, olderBase: false }));
   };
 
   return (

@@ -253,6 +253,24 @@ describe("drafts", () => {
   });
 });
 
+describe("drafts of saved grooves", () => {
+  it("a draft made on an older version keeps that base, so saving reports the conflict instead of overwriting", async () => {
+    const drafted = toggleHit(emptyGroove(), "kick", "0");
+    localStorage.setItem(draftKey("g1"), JSON.stringify({ v: 1, grooveId: "g1", baseVersionId: "v1", doc: drafted, savedAt: Date.now() }));
+    const fetchMock = vi.fn(async () => new Response(JSON.stringify({ error: { code: "version_conflict", message: "Version 2 was saved after yours." } }), { status: 409 }));
+    vi.stubGlobal("fetch", fetchMock);
+    render(<GrooveEditor doc={emptyGroove()} grooveId="g1" baseVersionId="v2" />);
+    expect(screen.getByText(/made on an earlier version/)).toBeTruthy();
+    expect(cell(2, 0).getAttribute("aria-label")).toMatch(/: hit$/);
+    await act(async () => {
+      fireEvent.click(screen.getByRole("button", { name: "Save version" }));
+    });
+    const body = JSON.parse((fetchMock.mock.calls[0] as unknown as [string, RequestInit])[1].body as string);
+    expect(body.baseVersionId).toBe("v1");
+    expect(screen.getByText("Version 2 was saved after yours.")).toBeTruthy();
+  });
+});
+
 describe("proof wording", () => {
   it("states the equivalence verdict from compareGrooves in plain words", () => {
     let doc = emptyGroove();
