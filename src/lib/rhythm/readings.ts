@@ -2,10 +2,11 @@
  * The reading finder: which way of writing this groove reads best?
  *
  * One sounding pattern can be written many ways. From a document, `findReadings` builds candidate readings —
- * tempo factors ½, 1 and 2 (`rescale`), each combined with every displacement on the grid within one bar, in
- * both directions (`displace`; a loop rotates, a song form gets a pickup bar), and, where the meter has a
- * common twin of the same bar length (4/4 ↔ 2/2, 3/4 ↔ 6/8), that re-barring too. Candidates whose transform
- * throws are skipped (halving an odd number of bars, a grid that no longer divides the bar, …).
+ * tempo factors ½, 1 and 2 (`rescale`), each combined with every displacement on the grid up to half a bar
+ * either way (`displace`; a loop rotates, a song form gets a pickup bar; a longer move is one of these plus a
+ * whole bar, which only changes the bar the loop starts on), and, where the meter has a common twin of the
+ * same bar length (4/4 ↔ 2/2, 3/4 ↔ 6/8), that re-barring too. Candidates whose transform throws are skipped
+ * (halving an odd number of bars, a grid that no longer divides the bar, a displacement that breaks swing, …).
  *
  * Each candidate is measured (readability figures) and scored; the best are then PROVEN to sound the same
  * as the input with `compareGrooves` (identical, or identical up to a start offset), in score order, until
@@ -23,9 +24,13 @@
  * simplicity (fewer steps, smaller displacement, later before earlier), then by id: the same input always
  * gives the same list.
  *
- * Cost: each candidate is transformed, measured and (optionally) spelled; proofs run only for the returned
- * ones. The candidate count is capped (`maxCandidates`, default 256, simplest first) so long songs on fine
- * grids stay bounded.
+ * Cost, in two passes: every candidate is measured without spelling (a loop's rotations even without building
+ * the document: the rescaled onsets are rotated in place); then the best `spellTop` (default max(24, 2 × limit))
+ * are built, spelled, scored in full and proven, batch after batch only while proofs leave `limit` unfilled.
+ * The candidate count is capped (`maxCandidates`, default 256, simplest first) so long songs on fine grids stay
+ * bounded: 4/4 on a sixteenth grid gives 112 candidates (½: 32 displacements, 1: 16, 2: 8, each also in 2/2).
+ * Measured on a 32-bar 4/4 loop with a sixteenth grid (kit and keys, 2-core machine under load): about
+ * 0.7–0.9 s warm, 2–2.6 s on the first call (JIT warm-up); a 2-bar loop about 0.15–0.45 s.
  */
 import { barLength, normalizeGroove, type GrooveDocument, type Meter } from "./document";
 import { compareGrooves, type Equivalence } from "./equivalence";
