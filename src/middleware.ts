@@ -1,8 +1,10 @@
 // Middleware fills context.locals (user, session) and refuses cross-origin writes. It authorises nothing else:
 // every page and endpoint checks its own permissions through src/lib/server/roles.ts.
 import { defineMiddleware, sequence } from "astro:middleware";
+import { answerStored, conditional, freshPage, readStoreDirective, STORE_HEADER, storePage } from "./lib/server/embed-cache";
 import { error } from "./lib/server/http";
 import { clearSessionCookie, readSessionToken, setSessionCookie, validateSessionToken } from "./lib/server/session";
+import { embedCacheKey } from "./lib/share/embed-options";
 
 const SAFE_METHODS = new Set(["GET", "HEAD", "OPTIONS"]);
 
@@ -54,4 +56,65 @@ const auth = defineMiddleware(async (ctx, next) => {
   return next();
 });
 
-export const onRequest = sequence(sameOriginWrites, auth);
+/** Embed pages whose whole response is stored and served without rendering (see lib/server/embed-cache.ts). */
+const STORED_PAGE = /^\/embed\/(?:[vg]\/[A-Za-z0-9_-]{1,64}|compare)\/?$/;
+
+/** Who may frame a page: embeds anyone (that is their job), every other page only Tactus itself. */
+function setFrameRules(headers: Headers, embeddable: boolean): void {
+  if (embeddable) {
+    headers.delete("x-frame-options");
+    if (!headers.has("content-security-policy")) headers.set("content-security-policy", "frame-ancestors *");
+  } else {
+    if (!headers.has("x-frame-options")) headers.set("x-frame-options", "SAMEORIGIN");
+    if (!headers.has("content-security-policy")) headers.set("content-security-policy", "frame-ancestors 'self'");
+  }
+}
+
+function withFrameRules(response: Response, embeddable: boolean): Response {
+  if (!(response.headers.get("content-type") ?? "").startsWith("text/html")) return response;
+  try {
+    setFrameRules(response.headers, embeddable);
+    return response;
+  } catch {
+    // Immutable headers (a redirect made by Response.redirect): copy the response.
+    const copy = new Response(response.body, response);
+    setFrameRules(copy.headers, embeddable);
+    return copy;
+  }
+}
+
+/**
+ * Public surfaces (sharing): embed pages come from a store of whole responses when every groove they show is
+ * still shared and unchanged (one small query, shared by concurrent requests); otherwise the page renders and,
+ * when it asks to be stored, is stored. Conditional GETs get 304 (Astro does not answer If-None-Match itself).
+ * Frame rules for every HTML page. Runs before the session lookup: embeds do not depend on who is signed in.
+ */
+const publicSurfaces = defineMiddleware(async (ctx, next) => {
+  const { request, url } = ctx;
+  const safe = SAFE_METHODS.has(request.method);
+  const embeddable = url.pathname.startsWith("/embed/");
+  if (safe && request.method !== "OPTIONS" && STORED_PAGE.test(url.pathname)) {
+    const key = embedCacheKey(url);
+    const stored = await freshPage(key);
+    if (stored) return answerStored(request, stored);
+    const response = await next();
+    const deps = readStoreDirective(response.headers.get(STORE_HEADER));
+    if (deps && response.status === 200 && request.method === "GET") {
+      const body = new Uint8Array(await response.arrayBuffer());
+      const headers = new Headers(response.headers);
+      for (const name of [STORE_HEADER, "content-length", "set-cookie", "content-encoding"]) headers.delete(name);
+      setFrameRules(headers, true);
+      return answerStored(request, storePage(key, { status: 200, headers: [...headers], body, deps }));
+    }
+    if (deps) {
+      const copy = new Response(response.body, response);
+      copy.headers.delete(STORE_HEADER);
+      return withFrameRules(copy, true);
+    }
+    return withFrameRules(response, true);
+  }
+  const response = await next();
+  return withFrameRules(safe ? conditional(request, response) : response, embeddable);
+});
+
+export const onRequest = sequence(sameOriginWrites, publicSurfaces, auth);
