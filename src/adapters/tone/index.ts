@@ -1,0 +1,91 @@
+/**
+ * The audio adapter's public face (the only folder that imports Tone.js). Loaded lazily: importing this module
+ * does not load Tone.js; the first `play` does.
+ *
+ * - `createTransport()`: the editor's seam (see src/components/editor/transport-port.ts).
+ * - `createPlayer()`: the player for any island (the embed's play island, the compare page).
+ * - `renderOffline()`: offline rendering for tests and benchmarks.
+ * - With `?audio-test=1` in the page address, `window.__tactusAudio` exposes an offline render of the last played
+ *   document with its detected onsets (browser tests only).
+ */
+import type { GrooveDocument } from "../../lib/rhythm/document";
+import { detectOnsets, mixDown } from "../../lib/rhythm/onsets";
+import { createPlayer, type PlayerOptions } from "./player";
+import { renderOffline, type OfflineOptions } from "./offline";
+
+export { createPlayer, type Player, type PlayerOptions, type PlayPosition } from "./player";
+export { renderOffline, type OfflineOptions, type OfflineRender } from "./offline";
+export { primeAudio } from "./unlock";
+export * from "./config";
+
+/** The editor's transport contract (structural copy of src/components/editor/transport-port.ts). */
+interface EditorPlayOptions {
+  loop: { startBar: number; endBar: number } | null;
+  metronome: boolean;
+  countInBars: number;
+  volumeDb: number;
+  onPosition?: (pos: { bar: number; beat: number } | null) => void;
+  onEnded?: () => void;
+}
+
+const toPlayer = (o: EditorPlayOptions): PlayerOptions => ({ loopRange: o.loop, metronome: o.metronome, countInBars: o.countInBars });
+
+/**
+ * The editor's transport: plays the document with the editor's options and reports the bar and beat heard
+ * (nothing during the count-in).
+ * @example const t = createTransport(); await t.play(doc, { loop: null, metronome: true, countInBars: 1, volumeDb: -12 });
+ */
+export function createTransport() {
+  const player = createPlayer();
+  let options: EditorPlayOptions | null = null;
+  player.onPosition((p) => options?.onPosition?.(p && !p.countIn ? { bar: p.bar, beat: p.beat } : null));
+  player.onEnded(() => options?.onEnded?.());
+  return {
+    async play(doc: GrooveDocument, o: EditorPlayOptions) {
+      options = o;
+      player.setVolume(o.volumeDb);
+      installTestHook(doc);
+      await player.play(doc, toPlayer(o));
+    },
+    stop() {
+      player.stop();
+    },
+    update(doc: GrooveDocument, o: EditorPlayOptions) {
+      options = o;
+      player.setVolume(o.volumeDb);
+      installTestHook(doc);
+      player.update(doc, toPlayer(o));
+    },
+    setVolume(db: number) {
+      player.setVolume(db);
+    },
+    dispose() {
+      options = null;
+      player.dispose();
+    },
+  };
+}
+
+export interface AudioTestHook {
+  /** The document last given to play or update. */
+  doc: GrooveDocument | null;
+  /** Render it offline (before the limiter) and detect its onsets. */
+  renderAndDetect(options?: OfflineOptions): Promise<{ onsets: number[]; duration: number; sampleRate: number; renderSeconds: number; peak: number }>;
+}
+
+function installTestHook(doc: GrooveDocument): void {
+  if (typeof window === "undefined" || !new URLSearchParams(window.location.search).has("audio-test")) return;
+  const w = window as unknown as { __tactusAudio?: AudioTestHook };
+  const hook: AudioTestHook = (w.__tactusAudio ??= {
+    doc: null,
+    async renderAndDetect(opts = {}) {
+      if (!hook.doc) throw new Error("nothing has been played yet");
+      const r = await renderOffline(hook.doc, { tap: "pre-limiter", ...opts });
+      const mono = mixDown(r.channels);
+      let peak = 0;
+      for (const v of mono) peak = Math.max(peak, Math.abs(v));
+      return { onsets: detectOnsets(mono, r.sampleRate), duration: r.duration, sampleRate: r.sampleRate, renderSeconds: r.renderSeconds, peak };
+    },
+  });
+  hook.doc = doc;
+}

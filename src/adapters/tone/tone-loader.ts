@@ -1,0 +1,24 @@
+/**
+ * Loads Tone.js on demand (the first press of play): the only place the `tone` package is imported at run time.
+ */
+import type * as ToneNS from "tone";
+
+export type Tone = typeof ToneNS;
+
+let loading: Promise<Tone> | null = null;
+
+/**
+ * The Tone.js module, loaded once.
+ * @example const Tone = await loadTone();
+ */
+export function loadTone(): Promise<Tone> {
+  if (!loading) {
+    // Tone prints a banner on import; keep the console for real messages.
+    (globalThis as { TONE_SILENCE_LOGGING?: boolean }).TONE_SILENCE_LOGGING = true;
+    loading = import("tone").catch((e: unknown) => {
+      loading = null;
+      throw e;
+    });
+  }
+  return loading;
+}
