@@ -65,7 +65,10 @@ function LibraryTable({ signedIn, userId, query: initialQuery = {} }: { signedIn
   const trash = params.scope === "trash";
   const data = query.data?.items ?? [];
   const total = query.data?.total ?? 0;
-  const pageCount = Math.max(1, Math.ceil(total / (params.pageSize ?? 20)));
+  const capped = query.data?.totalCapped ?? false;
+  const pageSize = params.pageSize ?? 20;
+  // Past the counting cap, there is a next page whenever this one is full.
+  const pageCount = capped ? Math.max(Math.ceil(total / pageSize), (params.page ?? 1) + (data.length === pageSize ? 1 : 0)) : Math.max(1, Math.ceil(total / pageSize));
 
   const sorting: SortingState = useMemo(() => {
     const id = Object.entries(SORTABLE).find(([, v]) => v === params.sort)?.[0] ?? "updatedAt";
@@ -157,7 +160,7 @@ function LibraryTable({ signedIn, userId, query: initialQuery = {} }: { signedIn
       <div className="flex flex-wrap items-end justify-between gap-3">
         <div>
           <h1 id="library-title" className="text-2xl font-semibold tracking-tight">Library</h1>
-          <p className="text-ink-soft">{query.isPending ? "Loading…" : `${total} groove${total === 1 ? "" : "s"}`}</p>
+          <p className="text-ink-soft">{query.isPending ? "Loading…" : `${total.toLocaleString("en-GB")}${capped ? "+" : ""} groove${total === 1 && !capped ? "" : "s"}`}</p>
         </div>
         {signedIn && (
           <button type="button" className="rounded-lg bg-ink px-4 py-2 font-medium text-surface hover:bg-brass" onClick={() => setShowNew((v) => !v)} aria-expanded={showNew}>
@@ -256,7 +259,7 @@ function LibraryTable({ signedIn, userId, query: initialQuery = {} }: { signedIn
 
       <nav aria-label="Pages" className="flex items-center justify-between gap-3 text-sm">
         <span className="text-ink-soft">
-          Page <span className="num">{params.page ?? 1}</span> of <span className="num">{pageCount}</span>
+          Page <span className="num">{params.page ?? 1}</span> of <span className="num">{pageCount}{capped ? "+" : ""}</span>
         </span>
         <div className="flex gap-2">
           <button type="button" className={quietButtonClass} disabled={(params.page ?? 1) <= 1} onClick={() => setParams((p) => ({ ...p, page: Math.max(1, (p.page ?? 1) - 1) }))}>

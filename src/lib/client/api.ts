@@ -57,6 +57,8 @@ export interface GrooveDetail extends Omit<GrooveSummary, "latestVersion"> {
 export interface Page<T> {
   items: T[];
   total: number;
+  /** The library list stops counting at 1,000: then `total` is 1000 and this is true. */
+  totalCapped?: boolean;
   page: number;
   pageSize: number;
 }

@@ -131,9 +131,15 @@ export interface ListQuery {
   pageSize: number;
 }
 
+/** The list counts matches up to this many; beyond, `totalCapped` is true and `total` is this number. */
+export const COUNT_CAP = 1000;
+
 export interface ListResult {
   items: GrooveSummary[];
+  /** Matches in all pages, at most COUNT_CAP. */
   total: number;
+  /** True when there are more than COUNT_CAP matches. */
+  totalCapped: boolean;
   page: number;
   pageSize: number;
 }
@@ -208,9 +214,11 @@ export async function listGrooves(actor: SessionUser | null, query: ListQuery): 
       .orderBy(...orderBy)
       .limit(query.pageSize)
       .offset((query.page - 1) * query.pageSize),
-    db.select({ n: sql<number>`count(*)`.mapWith(Number) }).from(grooves).where(condition),
+    // Counting stops at COUNT_CAP + 1 rows: a list of thousands says "1,000+" instead of scanning all of them.
+    db.execute<{ n: number }>(sql`select count(*)::int as n from (select 1 from ${grooves} where ${condition} limit ${COUNT_CAP + 1}) as matching`).then((r) => r.rows),
   ]);
-  const total = counted?.n ?? 0;
+  const totalCapped = (counted?.n ?? 0) > COUNT_CAP;
+  const total = Math.min(counted?.n ?? 0, COUNT_CAP);
   const who: Actor | null = actor ? { id: actor.id, siteRole: actor.siteRole } : null;
   return {
     items: rows.map((r) => ({
@@ -228,6 +236,7 @@ export async function listGrooves(actor: SessionUser | null, query: ListQuery): 
       deletedAt: r.groove.deletedAt?.toISOString() ?? null,
     })),
     total,
+    totalCapped,
     page: query.page,
     pageSize: query.pageSize,
   };

@@ -6,12 +6,12 @@
 // guards the chain against gaps and duplicates even if this code were wrong.
 import { createHash } from "node:crypto";
 import canonicalize from "canonicalize";
-import { and, desc, eq, lt } from "drizzle-orm";
+import { and, desc, eq, lt, sql } from "drizzle-orm";
 import { nanoid } from "nanoid";
 import type { GrooveDocument } from "../rhythm/document";
-import { audit, type Executor } from "./audit";
+import type { Executor } from "./audit";
 import { getDb } from "./db/index";
-import { grooveVersions, grooves, users } from "./db/schema";
+import { auditEvents, grooveVersions, grooves, users } from "./db/schema";
 import { authorizeGroove } from "./grooves";
 import { ApiError } from "./route";
 import type { SessionUser } from "./session";
@@ -118,9 +118,9 @@ export async function saveVersion(
 ): Promise<VersionWithDocument> {
   const hash = contentHash(input.document);
   return getDb().transaction(async (tx) => {
-    await authorizeGroove(actor, grooveId, "edit", tx, { lock: true });
-    const [g] = await tx.select({ latestVersionId: grooves.latestVersionId }).from(grooves).where(eq(grooves.id, grooveId));
-    const latestId = g?.latestVersionId ?? null;
+    // The row lock serialises saves to this groove; the latest version id read under it is current.
+    const { groove } = await authorizeGroove(actor, grooveId, "edit", tx, { lock: true });
+    const latestId = groove.latestVersionId ?? null;
     if (latestId !== input.baseVersionId) {
       const latest = latestId ? await getVersion(grooveId, latestId, tx) : null;
       const message = latest
@@ -128,32 +128,24 @@ export async function saveVersion(
         : "The version you started from is not this groove's latest version.";
       throw new ApiError(409, "version_conflict", message, { baseVersionId: ["not the latest version"] }, { latest });
     }
-    let number = 1;
-    if (latestId) {
-      const [prev] = await tx.select({ number: grooveVersions.number }).from(grooveVersions).where(eq(grooveVersions.id, latestId));
-      number = (prev?.number ?? 0) + 1;
-    }
     const id = newVersionId();
     const now = new Date();
-    await tx.insert(grooveVersions).values({
-      id,
-      grooveId,
-      number,
-      document: input.document,
-      contentHash: hash,
-      authorId: actor.id,
-      message: input.message,
-      parentVersionId: latestId,
-      createdAt: now,
-    });
-    await tx.update(grooves).set({ latestVersionId: id, updatedAt: now }).where(eq(grooves.id, grooveId));
-    await audit(tx, {
-      actorId: actor.id,
-      action: meta.action,
-      grooveId,
-      versionId: id,
-      details: { number, contentHash: hash, ...(meta.restoredFrom ? { restoredFrom: meta.restoredFrom } : {}) },
-    });
+    const extra = meta.restoredFrom ? { restoredFrom: meta.restoredFrom } : {};
+    // One round trip: the version (numbered after its parent), the groove's pointer, and the audit row.
+    const result = await tx.execute<{ number: number }>(sql`
+      with v as (
+        insert into ${grooveVersions} (id, groove_id, number, document, content_hash, author_id, message, parent_version_id, created_at)
+        values (${id}, ${grooveId}, coalesce((select number from ${grooveVersions} where id = ${latestId}), 0) + 1,
+                ${JSON.stringify(input.document)}::jsonb, ${hash}, ${actor.id}, ${input.message}, ${latestId}, ${now})
+        returning number
+      ), g as (
+        update ${grooves} set latest_version_id = ${id}, updated_at = ${now} where id = ${grooveId}
+      ), a as (
+        insert into ${auditEvents} (actor_id, action, groove_id, version_id, details)
+        select ${actor.id}, ${meta.action}, ${grooveId}, ${id}, jsonb_build_object('number', v.number, 'contentHash', ${hash}::text) || ${JSON.stringify(extra)}::jsonb from v
+      )
+      select number from v`);
+    const number = Number(result.rows[0]!.number);
     return {
       id,
       grooveId,

@@ -46,7 +46,8 @@ export const POST = route(async (ctx) => {
   const parsed = await parseBody(ctx.request, Create, { limitBytes: MAX_DOCUMENT_BYTES });
   if (!parsed.ok) return parsed.response;
   const input = parsed.data;
-  const doc = parseGroove(input.document ?? emptyGroove());
+  // Only a missing document means "start empty"; null or anything else is validated (and refused).
+  const doc = parseGroove(input.document === undefined ? emptyGroove() : input.document);
   if (!doc.ok) {
     return error(400, "invalid_document", "The groove document is not valid.", Object.fromEntries(doc.issues.map((i) => [`document.${i.path}`.replace(/\.$/, ""), [i.message]])));
   }
