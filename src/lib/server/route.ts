@@ -38,6 +38,8 @@ export function route(handler: (ctx: APIContext) => Promise<Response>): (ctx: AP
       return await handler(ctx);
     } catch (e) {
       if (e instanceof ApiError) return errorResponse(e);
+      // The client hung up mid-request (its body stream was cut): nobody is left to answer, nothing to log.
+      if (ctx.request.signal?.aborted) return new Response(null, { status: 499 });
       console.error(`${ctx.request.method} ${ctx.url.pathname} failed:`, e);
       return error(500, "internal_error", "Something went wrong on the server; nothing was changed by this request.");
     }
