@@ -29,11 +29,15 @@ function say(message) {
   process.stdout.write(`library-load: ${message}\n`);
 }
 
+/** Set when this script started the dev cluster, so it stops it again at the end. */
+let stopClusterAfter = null;
+
 /** A maintenance URL for a server where the scratch database can be created. */
 async function adminUrl() {
   if (process.env.BENCH_ADMIN_URL) return process.env.BENCH_ADMIN_URL;
-  const { ensureCluster } = await import("../../scripts/lib/postgres.mjs");
+  const { ensureCluster, stopCluster } = await import("../../scripts/lib/postgres.mjs");
   const cluster = await ensureCluster("dev");
+  if (cluster.startedNow) stopClusterAfter = () => stopCluster("dev");
   return `postgres://postgres@127.0.0.1:${cluster.port}/postgres`;
 }
 
@@ -228,5 +232,6 @@ try {
   if (process.env.BENCH_KEEP_DB) say(`kept the scratch database ${dbUrl.href}`);
   else await admin.query(`drop database if exists ${dbName} with (force)`);
   await admin.end();
+  stopClusterAfter?.();
 }
 process.exitCode = exitCode;
