@@ -1,13 +1,47 @@
 /**
  * The scrolling work area: the kit grid and the keys lane share one horizontal scroll, so their columns
  * stay aligned, with the playhead drawn over both while the groove plays.
+ *
+ * Only the columns near the visible part are in the DOM (whole bars, plus a margin, plus the cursor's
+ * column), with spacers standing in for the rest: a long song form stays as quick to edit as one bar.
  */
-import { useMemo } from "react";
+import { useCallback, useEffect, useLayoutEffect, useMemo, useRef, useState } from "react";
 import { useShallow } from "zustand/react/shallow";
 import { gridColumns } from "../../stores/selectors";
 import { useEditor } from "./context";
 import { KeysLane } from "./KeysLane";
 import { StepGrid } from "./StepGrid";
+
+/** The rendered column window, inclusive. */
+export interface ColumnWindow {
+  first: number;
+  last: number;
+}
+
+/** Columns kept rendered beyond each edge of the view. */
+const OVERSCAN = 24;
+
+interface View {
+  left: number;
+  width: number;
+  cell: number;
+  head: number;
+}
+
+/**
+ * Which columns to render: the visible ones and a margin, widened to whole bars and to the cursor.
+ * Without a measured view (server rendering, tests without layout) every column is rendered.
+ */
+export function columnWindow(view: View | null, total: number, perBar: number, cursorCol: number): ColumnWindow {
+  if (!view || view.width <= 0 || view.cell <= 0) return { first: 0, last: total - 1 };
+  let first = Math.floor(view.left / view.cell) - OVERSCAN;
+  let last = Math.ceil((view.left + view.width - view.head) / view.cell) + OVERSCAN;
+  first = Math.max(0, Math.min(first, cursorCol - 1));
+  last = Math.min(total - 1, Math.max(last, cursorCol + 1));
+  first = Math.floor(first / perBar) * perBar;
+  last = Math.min(total - 1, Math.ceil((last + 1) / perBar) * perBar - 1);
+  return { first, last };
+}
 
 export function GridArea({ menuRef }: { menuRef: React.MutableRefObject<(() => void) | null> }) {
   const [meter, grid, bars] = useEditor(useShallow((s) => [s.doc.meter, s.doc.grid, s.doc.bars] as const));
@@ -28,11 +62,42 @@ export function GridArea({ menuRef }: { menuRef: React.MutableRefObject<(() => v
     return { first: inBeat[0]!.col, count: inBeat.length };
   }, [playhead, columns]);
 
+  const scrollRef = useRef<HTMLDivElement>(null);
+  const cellProbe = useRef<HTMLDivElement>(null);
+  const headProbe = useRef<HTMLDivElement>(null);
+  const [view, setView] = useState<View | null>(null);
+  const frame = useRef(0);
+  const measure = useCallback(() => {
+    const el = scrollRef.current;
+    if (!el) return;
+    const next = { left: el.scrollLeft, width: el.clientWidth, cell: cellProbe.current?.offsetWidth ?? 0, head: headProbe.current?.offsetWidth ?? 0 };
+    setView((v) => (v && v.left === next.left && v.width === next.width && v.cell === next.cell && v.head === next.head ? v : next));
+  }, []);
+  useLayoutEffect(() => {
+    measure();
+    const el = scrollRef.current;
+    if (!el || typeof ResizeObserver === "undefined") return;
+    const ro = new ResizeObserver(measure);
+    ro.observe(el);
+    return () => ro.disconnect();
+  }, [measure]);
+  useEffect(() => () => cancelAnimationFrame(frame.current), []);
+  const onScroll = () => {
+    cancelAnimationFrame(frame.current);
+    frame.current = requestAnimationFrame(measure);
+  };
+
+  const cursorCol = useEditor((s) => s.cursor.col);
+  const perBar = Math.max(1, columns.length / Math.max(1, bars));
+  const { first, last } = columnWindow(view, columns.length, perBar, cursorCol);
+
   return (
-    <div className="tx-scroll" tabIndex={-1}>
+    <div ref={scrollRef} className="tx-scroll" tabIndex={-1} onScroll={onScroll}>
       <div className="tx-canvas">
-        <StepGrid columns={columns} shade={shade} menuRef={menuRef} />
-        <KeysLane columns={columns} shade={shade} />
+        <div ref={cellProbe} className="tx-probe tx-probe-cell" aria-hidden="true" />
+        <div ref={headProbe} className="tx-probe tx-probe-head" aria-hidden="true" />
+        <StepGrid columns={columns} shade={shade} first={first} last={last} menuRef={menuRef} />
+        <KeysLane columns={columns} shade={shade} first={first} last={last} />
         {span && (
           <div
             className="tx-playhead"

@@ -9,6 +9,7 @@ import { q, type KeyNote } from "../../lib/rhythm";
 import { keyNoteAt } from "../../lib/rhythm/editing";
 import { keysRows, pitchName, type GridColumn } from "../../stores/selectors";
 import { useActions, useEditor, useEditorStore } from "./context";
+import { Spacer } from "./Spacer";
 import { lineClass } from "./KitLane";
 
 const BLACK = new Set([1, 3, 6, 8, 10]);
@@ -32,6 +33,7 @@ const KeyCell = memo(function KeyCell(props: {
       data-pcell=""
       data-pitch={pitch}
       data-col={col.col}
+      aria-colindex={col.col + 2}
       tabIndex={cursor ? 0 : -1}
       aria-label={`Keys ${label}, ${col.where}: ${state}`}
       className={`tx-cell tx-kcell${lineClass(col)}${cursor ? " is-cursor" : ""}${shade ? " is-shade" : ""}`}
@@ -41,7 +43,16 @@ const KeyCell = memo(function KeyCell(props: {
   );
 });
 
-function KeyRow({ pitch, index, columns, shade, split }: { pitch: number; index: number; columns: GridColumn[]; shade: boolean[]; split: boolean }) {
+const KeyRow = memo(function KeyRow(props: {
+  pitch: number;
+  index: number;
+  columns: GridColumn[];
+  shade: boolean[];
+  split: boolean;
+  first: number;
+  last: number;
+}) {
+  const { pitch, index, columns, shade, split, first, last } = props;
   const notes = useEditor(useShallow((s) => s.doc.keys.notes.filter((n) => n.pitch === pitch)));
   const step = useEditor((s) => s.doc.grid.step);
   const cursorCol = useEditor((s) => (s.cursor.area === "keys" && s.cursor.pitch === pitch ? s.cursor.col : -1));
@@ -60,10 +71,11 @@ function KeyRow({ pitch, index, columns, shade, split }: { pitch: number; index:
   const black = BLACK.has(pitch % 12);
   return (
     <div role="row" className={`tx-row tx-krow${black ? " is-black" : ""}${split ? " is-split" : ""}`} aria-rowindex={index + 1}>
-      <div role="rowheader" className={`tx-rowhead tx-pitch${pitch % 12 === 0 ? " is-c" : ""}`}>
+      <div role="rowheader" aria-colindex={1} className={`tx-rowhead tx-pitch${pitch % 12 === 0 ? " is-c" : ""}`}>
         {label}
       </div>
-      {columns.map((c) => (
+      <Spacer count={first} />
+      {columns.slice(first, last + 1).map((c) => (
         <KeyCell
           key={c.col}
           pitch={pitch}
@@ -75,11 +87,12 @@ function KeyRow({ pitch, index, columns, shade, split }: { pitch: number; index:
           label={label}
         />
       ))}
+      <Spacer count={columns.length - 1 - last} />
     </div>
   );
-}
+});
 
-export function KeysLane({ columns, shade }: { columns: GridColumn[]; shade: boolean[] }) {
+export function KeysLane({ columns, shade, first, last }: { columns: GridColumn[]; shade: boolean[]; first: number; last: number }) {
   const store = useEditorStore();
   const actions = useActions();
   const range = useEditor((s) => s.keysRange);
@@ -199,7 +212,7 @@ export function KeysLane({ columns, shade }: { columns: GridColumn[]; shade: boo
         }}
       >
         {rows.map((p, i) => (
-          <KeyRow key={p} pitch={p} index={i} columns={columns} shade={shade} split={p === splitPitch} />
+          <KeyRow key={p} pitch={p} index={i} columns={columns} shade={shade} split={p === splitPitch} first={first} last={last} />
         ))}
       </div>
     </div>

@@ -6,6 +6,7 @@ import { memo, useMemo } from "react";
 import { KIT_PIECES, type KitHit, type KitPieceId } from "../../lib/rhythm";
 import { hitState, type GridColumn } from "../../stores/selectors";
 import { useActions, useEditor } from "./context";
+import { Spacer } from "./Spacer";
 
 export function lineClass(c: GridColumn): string {
   return c.barStart ? " is-bar" : c.beatStart ? " is-beat" : c.unitStart ? " is-unit" : "";
@@ -30,6 +31,7 @@ const KitCell = memo(function KitCell({ row, col, name, hit, cursor, selected, s
       data-kcell=""
       data-row={row}
       data-col={col.col}
+      aria-colindex={col.col + 2}
       tabIndex={cursor ? 0 : -1}
       aria-label={`${name}, ${col.where}: ${hitState(hit)}`}
       aria-selected={selected || undefined}
@@ -47,11 +49,15 @@ const KitCell = memo(function KitCell({ row, col, name, hit, cursor, selected, s
 export interface KitLaneProps {
   row: number;
   columns: GridColumn[];
+  /** Rendered column window (inclusive); spacers stand for the rest. */
+  first: number;
+  last: number;
   /** Per column: true when its beat is shaded (every other counted beat). */
   shade: boolean[];
 }
 
-export function KitLane({ row, columns, shade }: KitLaneProps) {
+/** Memoised: a row re-renders only when its own lane, its cursor column or the selection changes. */
+export const KitLane = memo(function KitLane({ row, columns, shade, first, last }: KitLaneProps) {
   const lane = useEditor((s) => s.doc.kit.lanes[row]);
   const cursorCol = useEditor((s) => (s.cursor.area === "kit" && s.cursor.row === row ? s.cursor.col : -1));
   const selection = useEditor((s) => s.selection);
@@ -62,7 +68,7 @@ export function KitLane({ row, columns, shade }: KitLaneProps) {
   const inSel = (bar: number) => !!selection && bar >= selection.start && bar < selection.start + selection.count;
   return (
     <div role="row" className="tx-row" aria-rowindex={row + 3}>
-      <div role="rowheader" className="tx-rowhead">
+      <div role="rowheader" className="tx-rowhead" aria-colindex={1}>
         <span className="tx-rowname">{piece.name}</span>
         <button
           type="button"
@@ -74,7 +80,8 @@ export function KitLane({ row, columns, shade }: KitLaneProps) {
           ×
         </button>
       </div>
-      {columns.map((c) => (
+      <Spacer count={first} />
+      {columns.slice(first, last + 1).map((c) => (
         <KitCell
           key={c.col}
           row={row}
@@ -86,6 +93,7 @@ export function KitLane({ row, columns, shade }: KitLaneProps) {
           shade={shade[c.col]!}
         />
       ))}
+      <Spacer count={columns.length - 1 - last} />
     </div>
   );
-}
+});

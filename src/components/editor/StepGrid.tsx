@@ -3,17 +3,21 @@
  * Pointer input is delegated to the grid element (one handler, not one per cell): press toggles and starts
  * painting a run, Shift+press steps the dynamic, right-click or a long touch opens the hit menu.
  */
-import { useEffect, useRef, useState, type PointerEvent as ReactPointerEvent } from "react";
+import { memo, useEffect, useRef, useState, type PointerEvent as ReactPointerEvent } from "react";
 import { useShallow } from "zustand/react/shallow";
 import { KIT_PIECES, KIT_ROW_ORDER, type KitPieceId } from "../../lib/rhythm";
 import type { GridColumn } from "../../stores/selectors";
 import { useActions, useEditor, useEditorStore } from "./context";
+import { Spacer } from "./Spacer";
 import { HitMenu, type MenuTarget } from "./HitMenu";
 import { KitLane, lineClass } from "./KitLane";
 
 export interface StepGridProps {
   columns: GridColumn[];
   shade: boolean[];
+  /** Rendered column window (inclusive). */
+  first: number;
+  last: number;
   /** Set by the parent so the keyboard shortcut can open the menu at the cursor. */
   menuRef?: React.MutableRefObject<(() => void) | null>;
 }
@@ -25,7 +29,7 @@ function cellOf(target: EventTarget | null, attr: string): HTMLElement | null {
   return ((target as HTMLElement | null)?.closest?.(`[${attr}]`) as HTMLElement | null) ?? null;
 }
 
-export function StepGrid({ columns, shade, menuRef }: StepGridProps) {
+export function StepGrid({ columns, shade, first, last, menuRef }: StepGridProps) {
   const store = useEditorStore();
   const actions = useActions();
   const pieces = useEditor(useShallow((s) => s.doc.kit.lanes.map((l) => l.piece)));
@@ -135,7 +139,7 @@ export function StepGrid({ columns, shade, menuRef }: StepGridProps) {
   };
 
   // Bar header cells: one per bar, spanning its columns.
-  const barStarts = columns.filter((c) => c.barStart);
+  const barStarts = columns.slice(first, last + 1).filter((c) => c.barStart);
   const perBar = columns.length / Math.max(1, bars);
   const unused = KIT_ROW_ORDER.filter((p) => !pieces.includes(p));
 
@@ -164,6 +168,7 @@ export function StepGrid({ columns, shade, menuRef }: StepGridProps) {
           <div role="columnheader" className="tx-rowhead tx-corner">
             Bar
           </div>
+          <Spacer count={first} />
           {barStarts.map((c) => {
             const selected = !!selection && c.bar >= selection.start && c.bar < selection.start + selection.count;
             return (
@@ -187,23 +192,9 @@ export function StepGrid({ columns, shade, menuRef }: StepGridProps) {
             );
           })}
         </div>
-        <div role="row" className="tx-row tx-countrow" aria-rowindex={2}>
-          <div role="columnheader" className="tx-rowhead tx-corner">
-            Count
-          </div>
-          {columns.map((c) => (
-            <div
-              key={c.col}
-              role="columnheader"
-              aria-label={c.where}
-              className={`tx-count${lineClass(c)}${c.beatStart ? " is-num" : ""}${shade[c.col] ? " is-shade" : ""}`}
-            >
-              {c.count}
-            </div>
-          ))}
-        </div>
+        <CountRow columns={columns} shade={shade} first={first} last={last} />
         {pieces.map((p, i) => (
-          <KitLane key={p} row={i} columns={columns} shade={shade} />
+          <KitLane key={p} row={i} columns={columns} shade={shade} first={first} last={last} />
         ))}
       </div>
       <div className="tx-addrow">
@@ -229,3 +220,26 @@ export function StepGrid({ columns, shade, menuRef }: StepGridProps) {
     </>
   );
 }
+
+/** The count header ("1 e & a"): depends on the layout only, so it is memoised. */
+const CountRow = memo(function CountRow({ columns, shade, first, last }: { columns: GridColumn[]; shade: boolean[]; first: number; last: number }) {
+  return (
+    <div role="row" className="tx-row tx-countrow" aria-rowindex={2}>
+      <div role="columnheader" className="tx-rowhead tx-corner">
+        Count
+      </div>
+      <Spacer count={first} />
+      {columns.slice(first, last + 1).map((c) => (
+        <div
+          key={c.col}
+          role="columnheader"
+          aria-label={c.where}
+          className={`tx-count${lineClass(c)}${c.beatStart ? " is-num" : ""}${shade[c.col] ? " is-shade" : ""}`}
+        >
+          {c.count}
+        </div>
+      ))}
+      <Spacer count={columns.length - 1 - last} />
+    </div>
+  );
+});
