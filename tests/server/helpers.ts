@@ -37,11 +37,11 @@ export interface Reply<T = any> {
 export async function api<T = any>(
   method: string,
   path: string,
-  opts: { cookie?: string | null; body?: unknown; raw?: string | Uint8Array; headers?: Record<string, string> } = {},
+  opts: { cookie?: string | null; body?: unknown; raw?: string; headers?: Record<string, string> } = {},
 ): Promise<Reply<T>> {
   const headers: Record<string, string> = { accept: "application/json", ...(opts.headers ?? {}) };
   if (opts.cookie) headers.cookie = `tactus_session=${opts.cookie}`;
-  let body: string | Uint8Array | undefined;
+  let body: string | undefined;
   if (opts.raw !== undefined) body = opts.raw;
   else if (opts.body !== undefined) {
     body = JSON.stringify(opts.body);
