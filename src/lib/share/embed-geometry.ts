@@ -63,19 +63,19 @@ export function embedHeight(frameWidth: number, drawn: Partial<Record<WidthBucke
 }
 
 /**
- * CSS that shows exactly one bucket's drawing for each frame width (viewport width = content + padding), and
- * the 720 drawing in print.
- * @example bucketCss() // ".tx-bucket{display:none}@media (max-width:503.98px){.tx-bucket[data-w='360']{display:block}}…"
+ * CSS that shows exactly one bucket's drawing for the width of the figure that holds it (a container query on
+ * `.tx-notation`, so the same drawings work full width in an embed and half width side by side), and the 720
+ * drawing in print.
+ * @example bucketCss() // ".tx-notation{container-type:inline-size}.tx-bucket{display:none}@container (max-width:479.98px){…}…"
  */
 export function bucketCss(): string {
-  const pad = 2 * EMBED_CHROME.padding;
-  let css = ".tx-bucket{display:none}";
+  let css = ".tx-notation{container-type:inline-size}.tx-bucket{display:none}";
   WIDTH_BUCKETS.forEach((b, i) => {
-    const from = BUCKET_FROM[i]! + pad;
+    const from = BUCKET_FROM[i]!;
     const next = BUCKET_FROM[i + 1];
-    const conds = [i > 0 ? `(min-width:${from}px)` : "", next !== undefined ? `(max-width:${next + pad - 0.02}px)` : ""].filter(Boolean).join(" and ");
-    css += `@media screen and ${conds}{.tx-bucket[data-w='${b}']{display:block}}`;
+    const conds = [i > 0 ? `(min-width:${from}px)` : "", next !== undefined ? `(max-width:${next - 0.02}px)` : ""].filter(Boolean).join(" and ");
+    css += `@container ${conds}{.tx-bucket[data-w='${b}']{display:block}}`;
   });
-  css += "@media print{.tx-bucket{display:none!important}.tx-bucket[data-w='720']{display:block!important}}";
+  css += "@media print{.tx-notation{container-type:normal}.tx-bucket{display:none!important}.tx-bucket[data-w='720']{display:block!important}}";
   return css;
 }
