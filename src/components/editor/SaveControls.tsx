@@ -19,11 +19,11 @@ export function SaveControls() {
   const [busy, setBusy] = useState(false);
   const [outcome, setOutcome] = useState<SaveOutcome | null>(null);
 
-  const save = async (e: React.FormEvent) => {
-    e.preventDefault();
+  const save = async (e?: React.FormEvent, onTopOf?: string) => {
+    e?.preventDefault();
     const s = store.getState();
     setBusy(true);
-    const r = await saveVersion(s.grooveId, s.baseVersionId, s.doc, message.trim(), { title });
+    const r = await saveVersion(s.grooveId, onTopOf ?? s.baseVersionId, s.doc, message.trim(), { title });
     setBusy(false);
     setOutcome(r);
     if (!r.ok) return;
@@ -55,6 +55,14 @@ export function SaveControls() {
           outcome.kind === "sign-in" ? (
             <>
               {outcome.message} <a href={outcome.signInUrl}>Sign in</a>
+            </>
+          ) : outcome.kind === "conflict" && outcome.latest ? (
+            <>
+              <span className="tx-error">{outcome.message}</span>{" "}
+              <button type="button" className="tx-btn is-small" disabled={busy} onClick={() => void save(undefined, outcome.latest!.id)}>
+                Save mine on top of version {outcome.latest.number}
+              </button>{" "}
+              <span className="tx-dim">(version {outcome.latest.number} stays in the history)</span>
             </>
           ) : (
             <span className="tx-error">{outcome.message}</span>

@@ -257,7 +257,11 @@ describe("drafts of saved grooves", () => {
   it("a draft made on an older version keeps that base, so saving reports the conflict instead of overwriting", async () => {
     const drafted = toggleHit(emptyGroove(), "kick", "0");
     localStorage.setItem(draftKey("g1"), JSON.stringify({ v: 1, grooveId: "g1", baseVersionId: "v1", doc: drafted, savedAt: Date.now() }));
-    const fetchMock = vi.fn(async () => new Response(JSON.stringify({ error: { code: "version_conflict", message: "Version 2 was saved after yours." } }), { status: 409 }));
+    const latest = { id: "v2", number: 2, message: "", author: null, createdAt: "2026-01-01T00:00:00Z", contentHash: "x", document: emptyGroove() };
+    const fetchMock = vi
+      .fn()
+      .mockResolvedValueOnce(new Response(JSON.stringify({ error: { code: "version_conflict", message: "Version 2 was saved after yours." }, latest }), { status: 409 }))
+      .mockResolvedValueOnce(new Response(JSON.stringify({ id: "v3", number: 3 }), { status: 201 }));
     vi.stubGlobal("fetch", fetchMock);
     render(<GrooveEditor doc={emptyGroove()} grooveId="g1" baseVersionId="v2" />);
     expect(screen.getByText(/made on an earlier version/)).toBeTruthy();
@@ -268,6 +272,12 @@ describe("drafts of saved grooves", () => {
     const body = JSON.parse((fetchMock.mock.calls[0] as unknown as [string, RequestInit])[1].body as string);
     expect(body.baseVersionId).toBe("v1");
     expect(screen.getByText("Version 2 was saved after yours.")).toBeTruthy();
+    // Nothing is lost by saving on top: version 2 stays in the history.
+    await act(async () => {
+      fireEvent.click(screen.getByRole("button", { name: "Save mine on top of version 2" }));
+    });
+    expect(JSON.parse((fetchMock.mock.calls[1] as unknown as [string, RequestInit])[1].body as string).baseVersionId).toBe("v2");
+    expect(screen.getByText("Saved as version 3.")).toBeTruthy();
   });
 });
 
