@@ -100,7 +100,11 @@ export function schedulePlan(
     if (lastPass()) transport.loop = false;
   };
   if (plan.loop) {
-    transport.setLoopPoints(`${Math.round(ticksOf(plan.loop.start))}i`, `${Math.round(ticksOf(plan.loop.end))}i`);
+    // Tone turns a loop point into ticks through seconds at the current tempo, which can land a hair above the
+    // whole tick (768.0000000000002): the tick at the loop's end would then play before the wrap, and the loop's
+    // first events would come one tick late. A loop end a thousandth of a tick early wraps exactly on its tick.
+    const loopEnd = Math.round(ticksOf(plan.loop.end)) - 0.001;
+    transport.setLoopPoints(`${Math.round(ticksOf(plan.loop.start))}i`, (loopEnd * 60) / (bpm * PPQ));
     transport.loop = !lastPass();
     transport.on("loop", onLoop);
   } else transport.loop = false;

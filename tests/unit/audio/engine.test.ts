@@ -137,7 +137,7 @@ function fakeTransport(state: "started" | "stopped" = "stopped") {
     PPQ: 192,
     state,
     loop: false,
-    loopPoints: [] as string[],
+    loopPoints: [] as (string | number)[],
     stops: [] as number[],
     bpm: {
       get value() {
@@ -163,7 +163,7 @@ function fakeTransport(state: "started" | "stopped" = "stopped") {
       const k = events.findIndex((e) => e.id === eventId);
       if (k >= 0) events.splice(k, 1);
     },
-    setLoopPoints(a: string, b: string) {
+    setLoopPoints(a: string | number, b: string | number) {
       transport.loopPoints = [a, b];
     },
     on(name: string, fn: () => void) {
@@ -239,7 +239,11 @@ describe("schedulePlan", () => {
     const looped = fakeTransport();
     schedulePlan({} as never, looped.transport as never, buildPlaybackPlan(swung, { loopRange: { startBar: 0, endBar: 2 }, countInBars: 1 }), recordingBank().bank);
     // One bar of 4/4 = 4 quarters = 768 ticks of count-in, then two bars.
-    expect(looped.transport.loopPoints).toEqual([`${4 * PPQ}i`, `${12 * PPQ}i`]);
+    expect(looped.transport.loopPoints[0]).toBe(`${4 * PPQ}i`);
+    // The end is given in seconds at quarter = 180, a thousandth of a tick before the whole tick (see the engine).
+    const endTicks = (Number(looped.transport.loopPoints[1]) * 180 * PPQ) / 60;
+    expect(endTicks).toBeLessThan(12 * PPQ);
+    expect(endTicks).toBeGreaterThan(12 * PPQ - 0.01);
     expect(looped.transport.loop).toBe(true);
 
     const once = fakeTransport();
