@@ -3,11 +3,10 @@
  * volume, with the listening-safety note. The sound itself comes from the audio adapter behind
  * `TransportController`; nothing here imports an audio library.
  */
-import { useId } from "react";
+import { VolumeControl } from "../transport/VolumeControl";
 import { useActions, useEditor, useTransport } from "./context";
 
 export function Transport() {
-  const id = useId();
   const transport = useTransport();
   const actions = useActions();
   const playing = useEditor((s) => s.playing);
@@ -41,28 +40,14 @@ export function Transport() {
           <option value={2}>2 bars</option>
         </select>
       </label>
-      <label className="tx-field is-inline tx-volume">
-        <span>Volume</span>
-        <input
-          type="range"
-          min={-40}
-          max={0}
-          step={1}
-          value={settings.volumeDb}
-          aria-valuetext={`${settings.volumeDb} dB`}
-          aria-describedby={`${id}-safe`}
-          onChange={(e) => transport.setVolume(Number(e.target.value))}
-        />
-        <span className="num tx-dim">{settings.volumeDb} dB</span>
-      </label>
       <output className="tx-position num" aria-live="off">
         {playhead ? `bar ${playhead.bar + 1} · beat ${playhead.beat + 1}` : "—"}
       </output>
-      <p id={`${id}-safe`} className="tx-safety">
-        Listen at a moderate level. Safe-listening guidance (WHO–ITU H.870) puts the weekly limit at 80 dB(A) for 40 hours
-        for adults and 75 dB(A) for children; every 3 dB louder halves the safe time.
-        {!transport.available && <> Audio playback is not part of this build yet.</>}
-      </p>
+      <VolumeControl
+        value={settings.volumeDb}
+        onChange={(db) => transport.setVolume(db)}
+        note={!transport.available && <> Audio playback is not part of this build yet.</>}
+      />
     </section>
   );
 }
