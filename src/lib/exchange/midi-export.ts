@@ -7,8 +7,10 @@
  *   played, one tempo (FF 51, microseconds per QUARTER note) and one time signature (FF 58);
  * - "Drum kit" on channel 10 (status nibble 9) with General MIDI Level 1 percussion keys and velocities
  *   from the dynamics (DYNAMIC_VELOCITY); a flam adds its soft grace stroke before the main stroke, as
- *   playback does (FLAM_GRACE_SECONDS, FLAM_GRACE_VELOCITY_RATIO);
- * - "Keys" on channel 1 with the notes' own pitches and velocities.
+ *   playback does (FLAM_GRACE_SECONDS, FLAM_GRACE_VELOCITY_RATIO), but never before the previous stroke of that
+ *   drum nor before the start of the file;
+ * - "Keys" on channel 1 with the notes' own pitches and velocities; a note still held when its key is struck
+ *   again (a long note in a repeated section) ends there, since MIDI cannot hold one key twice.
  * Every onset comes from `compileSchedule`, so sections, repeats, swing and notes held across a loop seam
  * sound exactly as in playback; seconds become ticks at the written tempo (rounded to the nearest tick).
  */
@@ -65,6 +67,8 @@ interface Pending {
   length: number;
   midi: number;
   velocity: number;
+  /** The grace stroke of a flam (gives way to a main stroke on the same tick). */
+  grace?: boolean;
 }
 
 /**
@@ -88,6 +92,7 @@ export function exportMidi(doc: GrooveDocument, options: MidiExportOptions = {})
 
   const kit: Pending[] = [];
   const keys: Pending[] = [];
+  const lastTick = new Map<number, number>(); // GM key → tick of its latest main stroke
   for (const e of events) {
     const tick = toTick(e.time);
     if (e.kind === "keys") {
@@ -96,8 +101,9 @@ export function exportMidi(doc: GrooveDocument, options: MidiExportOptions = {})
     }
     const note = KIT_PIECES[e.piece!].gmNote;
     const length = Math.max(1, Math.round(e.duration * ticksPerSecond));
-    if (e.articulation === "flam") addGrace(kit, e, note, length, toTick);
+    if (e.articulation === "flam") addGrace(kit, e, note, length, toTick, tick, lastTick.get(note));
     kit.push({ tick, length, midi: note, velocity: e.velocity });
+    lastTick.set(note, tick);
   }
 
   const hasKeys = keys.length > 0;
@@ -112,22 +118,37 @@ export function exportMidi(doc: GrooveDocument, options: MidiExportOptions = {})
     track.name = KEYS_TRACK_NAME;
     track.channel = KEYS_CHANNEL;
     track.instrument.number = KEYS_PROGRAM;
-    addNotes(track, keys);
+    addNotes(track, separateRepeats(keys));
   }
   const bytes = midi.toArray();
   setMetronomeClocks(bytes, metronomeClocks(doc.meter));
   return bytes;
 }
 
-function addGrace(kit: Pending[], e: ScheduledEvent, note: number, length: number, toTick: (s: number) => number): void {
-  const time = e.time - FLAM_GRACE_SECONDS;
-  if (time < 0) return; // as in playback: no grace before the start
-  kit.push({ tick: toTick(time), length, midi: note, velocity: Math.max(1, Math.round(e.velocity * FLAM_GRACE_VELOCITY_RATIO)) });
+/**
+ * The grace stroke of a flam, FLAM_GRACE_SECONDS before the main stroke; when the previous stroke of the same drum
+ * (or the start of the file) is closer than that, just after it: a grace always sits between the two strokes.
+ * None when no tick is free before the main stroke.
+ */
+function addGrace(kit: Pending[], e: ScheduledEvent, note: number, length: number, toTick: (s: number) => number, mainTick: number, previous?: number): void {
+  const tick = Math.max(toTick(e.time - FLAM_GRACE_SECONDS), previous !== undefined ? previous + 1 : 0);
+  if (tick >= mainTick) return;
+  kit.push({ tick, length, midi: note, velocity: graceVelocity(e.velocity), grace: true });
 }
 
 /**
- * Drum notes of one key must not overlap (a note-off after the next note-on would cut the next stroke):
- * each is ended at the next stroke of the same key, and strokes on the same tick are merged (loudest kept).
+ * Velocity of a flam's grace stroke (FLAM_GRACE_VELOCITY_RATIO of the main stroke's, at least 1).
+ * @example graceVelocity(90) // 45
+ */
+export function graceVelocity(velocity: number): number {
+  return Math.max(1, Math.round(velocity * FLAM_GRACE_VELOCITY_RATIO));
+}
+
+/**
+ * Notes of one key must not overlap: the note-off of the first would cut the second, and readers pair note-offs
+ * with note-ons by key. Each note is ended where the same key is struck again (a held keys note in a repeated
+ * section, a drum stroke); strokes on the same tick are merged (a main stroke before a flam's grace, then the
+ * loudest).
  */
 function separateRepeats(notes: Pending[]): Pending[] {
   const byKey = new Map<number, Pending[]>();
@@ -138,7 +159,7 @@ function separateRepeats(notes: Pending[]): Pending[] {
   }
   const out: Pending[] = [];
   for (const list of byKey.values()) {
-    list.sort((a, b) => a.tick - b.tick || b.velocity - a.velocity);
+    list.sort((a, b) => a.tick - b.tick || Number(a.grace ?? false) - Number(b.grace ?? false) || b.velocity - a.velocity);
     for (let i = 0; i < list.length; i++) {
       const n = list[i]!;
       if (i > 0 && list[i - 1]!.tick === n.tick) continue;

@@ -12,7 +12,9 @@
  *   clearly closer to a triplet grid (two thirds of the step) than to the straight grid is written in
  *   triplets. The report lists what moved and by how much (milliseconds at the groove's tempo).
  * - Kit velocities become dynamics (ghost below 65, accent from 105, the midpoints of DYNAMIC_VELOCITY); a
- *   softer stroke of the same piece up to FLAM_WINDOW_SECONDS before another becomes that stroke's flam.
+ *   softer stroke of the same piece up to FLAM_WINDOW_SECONDS before another becomes that stroke's flam, when
+ *   it has the velocity of a Tactus grace stroke (see midi-export.ts) or is closer than half the finest grid
+ *   step, so two strokes on neighbouring grid points are never folded into one.
  * - Markers (FF 06) in the first track become sections, starting at the nearest bar line.
  */
 import { Midi } from "@tonejs/midi";
@@ -21,6 +23,7 @@ import { KIT_PIECES, KIT_ROW_ORDER, type Dynamic, type KitPieceId } from "../rhy
 import { beatLengths, naturalBeatNote } from "../rhythm/meter";
 import { Fraction, fmt, q, type Rational } from "../rhythm/rational";
 import { GM1_PERCUSSION, percussionLabel, percussionPiece } from "./gm-percussion";
+import { graceVelocity } from "./midi-export";
 import { MidiImportError, inspectSmf } from "./smf-check";
 
 export { MidiImportError } from "./smf-check";
@@ -166,20 +169,23 @@ export function importMidi(bytes: Uint8Array, options: MidiImportOptions = {}): 
   // Tempo, in beats (of the meter's natural beat) per minute.
   const fileUs = summary.tempos.length > 0 ? midi.header.tempos.map((t) => 60_000_000 / t.bpm)[0]! : null;
   if (new Set(summary.tempos).size > 1) warnings.push(`The file changes tempo ${summary.tempos.length - 1} time(s); the groove keeps the first tempo throughout.`);
+  const absurd = (said: string, value: number) =>
+    new MidiImportError("absurd_tempo", `${said} is ${formatBpm(value)} bpm; a groove's tempo must be ${LIMITS.minBpm}–${LIMITS.maxBpm} bpm: choose a tempo and import again.`);
+  const inRange = (x: number) => x >= LIMITS.minBpm && x <= LIMITS.maxBpm;
   let bpm: Fraction;
   if (options.bpm !== undefined) {
     bpm = q(options.bpm);
+    if (!inRange(bpm.valueOf())) throw absurd("The tempo given", bpm.valueOf());
   } else if (fileUs !== null) {
     if (!(fileUs >= 1)) throw new MidiImportError("absurd_tempo", "The file's tempo is 0 microseconds per quarter note (an infinite tempo): choose a tempo and import again.");
+    const exact = 60_000_000 / fileUs / (beatNote.valueOf() * 4);
+    if (!inRange(exact)) throw absurd("The file's tempo", exact);
     bpm = tempoFromMicroseconds(Math.round(fileUs), beatNote);
+    if (!inRange(bpm.valueOf())) bpm = new Fraction(Math.round(exact * 100), 100);
   } else {
     bpm = new Fraction(120).div(beatNote.mul(4)); // SMF 1.0: no tempo event means 120 quarter notes per minute
   }
   const bpmValue = bpm.valueOf();
-  if (!(bpmValue >= LIMITS.minBpm && bpmValue <= LIMITS.maxBpm)) {
-    const said = options.bpm !== undefined ? "The tempo given" : "The file's tempo";
-    throw new MidiImportError("absurd_tempo", `${said} is ${formatBpm(bpmValue)} bpm; a groove's tempo must be ${LIMITS.minBpm}–${LIMITS.maxBpm} bpm: choose a tempo and import again.`);
-  }
   const secondsPerWhole = 60 / (bpmValue * beatNote.valueOf());
 
   // Notes.
@@ -313,8 +319,8 @@ function quantise(raw: RawNote[], opt: QuantiseInput): QuantiseOutput {
   const { meter } = opt;
   const chosen = q(opt.grid);
   const straight = chosen.n === 1n && (chosen.d & (chosen.d - 1n)) === 0n;
-  // The straight step must divide every beat: a beat unit finer than the grid refines it.
-  const S0 = straight ? chosen.gcd(new Fraction(1, meter.beatUnit)) : chosen;
+  // A straight step must divide every beat (a beat unit finer than the grid refines it); any step must divide the bar.
+  const S0 = straight ? chosen.gcd(new Fraction(1, meter.beatUnit)) : chosen.gcd(new Fraction(meter.beatsPerBar, meter.beatUnit));
   const T0 = opt.triplets && straight ? S0.mul(2).div(3) : null;
   // Integer units: D per whole note, so steps, beat starts and bar lengths are whole numbers of units.
   let D = lcm(Number(S0.d), meter.beatUnit);
@@ -327,6 +333,8 @@ function quantise(raw: RawNote[], opt: QuantiseInput): QuantiseOutput {
   const L = beatLens.reduce((a, b) => a + b, 0);
   const nBeats = beatLens.length;
   const tripletOk = beatLens.map((len) => T > 0 && len % T === 0);
+  // Grid points are counted from each beat when the step divides the beats (from the bar line otherwise: 1/12 in 6/8).
+  const fromBeat = beatLens.every((len) => len % S === 0);
 
   // Kit: resolve pieces, fold flams, list unknown keys.
   const unknown = new Map<number, UnknownPercussion>();
@@ -364,16 +372,35 @@ function quantise(raw: RawNote[], opt: QuantiseInput): QuantiseOutput {
     }
     strokes.push({ piece: piece!, x, velocity: n.velocity, seconds: n.seconds, flam: false, dropped: false });
   }
+  // Flams. First the graces Tactus writes (graceVelocity of the next stroke of the drum, within the window), then
+  // any softer stroke just before another of the same piece, closer than half the finest step (so two strokes
+  // that could be written on separate grid points are never folded into one).
   let flams = 0;
-  const lastByPiece = new Map<KitPieceId, Stroke>();
+  const finest = T > 0 ? Math.min(S, T) : S;
+  const byPiece = new Map<KitPieceId, Stroke[]>();
   for (const s of strokes) {
-    const prev = lastByPiece.get(s.piece);
-    if (prev && !prev.dropped && s.seconds - prev.seconds <= FLAM_WINDOW_SECONDS && prev.velocity < s.velocity && !prev.flam) {
-      prev.dropped = true;
-      s.flam = true;
-      flams++;
+    const list = byPiece.get(s.piece);
+    if (list) list.push(s);
+    else byPiece.set(s.piece, [s]);
+  }
+  const fold = (p: Stroke, s: Stroke) => {
+    p.dropped = true;
+    s.flam = true;
+    flams++;
+  };
+  const within = (p: Stroke, s: Stroke) => !p.dropped && !p.flam && s.seconds - p.seconds <= FLAM_WINDOW_SECONDS;
+  for (const list of byPiece.values()) {
+    for (let i = 1; i < list.length; i++) {
+      const [p, s] = [list[i - 1]!, list[i]!];
+      if (within(p, s) && p.velocity === graceVelocity(s.velocity) && p.velocity < s.velocity) fold(p, s);
     }
-    lastByPiece.set(s.piece, s);
+    const rest = list.filter((s) => !s.dropped);
+    const graceOf = (p: Stroke, s: Stroke) => within(p, s) && !s.flam && s.x - p.x < finest / 2 && p.velocity < s.velocity;
+    for (let i = 1; i < rest.length; i++) {
+      const [p, s, next] = [rest[i - 1]!, rest[i]!, rest[i + 1]];
+      // A stroke that is itself the grace of the next one is not a main stroke.
+      if (graceOf(p, s) && !(next && graceOf(s, next))) fold(p, s);
+    }
   }
   const kept = strokes.filter((s) => !s.dropped);
 
@@ -387,9 +414,15 @@ function quantise(raw: RawNote[], opt: QuantiseInput): QuantiseOutput {
     return bar * nBeats + b;
   };
   const beatStart = (beat: number) => Math.floor(beat / nBeats) * L + beatStarts[beat % nBeats]!;
+  // A point stays in the beat it was assigned to (its end is the next beat's start, on every grid), so a
+  // re-import assigns it to the same beat and makes the same choice: importing is stable.
   const snap = (x: number, beat: number, step: number) => {
+    if (step === S && !fromBeat) {
+      const bar0 = Math.floor(beat / nBeats) * L;
+      return bar0 + Math.round((x - bar0) / step) * step;
+    }
     const b0 = beatStart(beat);
-    return b0 + Math.round((x - b0) / step) * step;
+    return Math.min(b0 + beatLens[beat % nBeats]!, Math.max(b0, b0 + Math.round((x - b0) / step) * step));
   };
 
   // Triplet detection, beat by beat, over every onset.
@@ -435,6 +468,7 @@ function quantise(raw: RawNote[], opt: QuantiseInput): QuantiseOutput {
   let lastUnit = 0;
   for (const s of kept) {
     const qx = quant(s.x);
+    if (qx === 0 && s.flam) s.flam = false; // a flam needs room for its grace before it
     noteMove("kit", s.x, qx, { piece: s.piece });
     let m = hitMap.get(s.piece);
     if (!m) hitMap.set(s.piece, (m = new Map()));
