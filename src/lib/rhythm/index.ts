@@ -11,3 +11,5 @@ export * from "./schedule";
 export * from "./equivalence";
 export * from "./describe-position";
 export * from "./readings";
+export * from "./editing";
+export * from "./tap-tempo";
