@@ -6,7 +6,7 @@
  * iOS). Audio starts only after a user gesture: `play` is meant to be called from one.
  */
 import type { GrooveDocument } from "../../lib/rhythm/document";
-import { buildPlaybackPlan, positionAt, type BeatMark, type PlaybackOptions, type PlaybackPlan, type Voice } from "../../lib/rhythm/playback-plan";
+import { buildPlaybackPlan, carryPosition, type PlaybackOptions, type PlaybackPlan, type Voice } from "../../lib/rhythm/playback-plan";
 import { DEFAULT_VOLUME_DB, LIVE_LOOK_AHEAD } from "./config";
 import { schedulePlan, type PlayPosition, type ScheduledPlan } from "./engine";
 import { createMasterChain, type MasterChain } from "./master";
@@ -132,30 +132,19 @@ export function createPlayer(initialVolumeDb = DEFAULT_VOLUME_DB): Player {
       const transport = T.getTransport();
       const old = scheduled;
       const plan = buildPlaybackPlan(doc, options);
-      // Where are we in the music? Map the old plan's position to the same bar and offset in the new plan.
-      const ticksNow = transport.ticks;
-      const tOld = old.secondsOf(ticksNow);
-      const pos = positionAt(old.plan, tOld);
+      // Where are we in the music? The same bar and place in it, in the new plan.
+      const tOld = old.secondsOf(transport.ticks);
       const pastFirst = old.pastFirstPass;
       old.clear();
       bank.prepare(voicesOf(plan));
-      const gen = generation;
-      scheduled = schedulePlan(T, transport, plan, bank, hooks(live, gen), { tempoFactor: factor, pastFirstPass: pastFirst });
-      let tNew = tOld * (plan.secondsPerWhole / old.plan.secondsPerWhole);
-      if (pos) {
-        const barStartOld = pos.time - beatOffset(old.plan, pos);
-        const intoBar = (tOld - barStartOld) / old.plan.secondsPerWhole; // whole notes into the bar
-        const from = pos.countIn ? 0 : plan.loop && pastFirst ? plan.loop.start : plan.countInSeconds;
-        const target = plan.beats.find((m) => m.beat === 0 && m.bar === pos.bar && m.countIn === pos.countIn && m.time >= from - 1e-9);
-        if (target) tNew = target.time + intoBar * plan.secondsPerWhole;
-        else if (plan.loop) tNew = plan.loop.start;
-      }
-      if (plan.loop && tNew >= plan.loop.end) tNew = plan.loop.start + ((tNew - plan.loop.start) % (plan.loop.end - plan.loop.start));
-      if (!plan.loop && tNew >= plan.end) {
+      scheduled = schedulePlan(T, transport, plan, bank, hooks(live, generation), { tempoFactor: factor, pastFirstPass: pastFirst });
+      const tNew = carryPosition(old.plan, tOld, plan, pastFirst);
+      if (tNew === null) {
         player.stop();
         endListeners.forEach((cb) => cb());
         return;
       }
+      const ticksNow = transport.ticks;
       const ticksNew = scheduled.ticksOf(tNew);
       if (Math.abs(ticksNew - ticksNow) > 0.5) transport.ticks = Math.round(ticksNew);
     },
@@ -198,15 +187,4 @@ export function createPlayer(initialVolumeDb = DEFAULT_VOLUME_DB): Player {
     },
   };
   return player;
-}
-
-/** Seconds from the start of the bar to a beat mark (its beat's start, from the plan's beat marks). */
-function beatOffset(plan: PlaybackPlan, mark: BeatMark): number {
-  if (mark.beat === 0) return 0;
-  const i = plan.beats.indexOf(mark);
-  for (let k = i; k >= 0; k--) {
-    const m = plan.beats[k]!;
-    if (m.beat === 0) return mark.time - m.time;
-  }
-  return 0;
 }

@@ -279,3 +279,32 @@ export function positionAt(plan: PlaybackPlan, time: number): BeatMark | null {
   }
   return found;
 }
+
+/** Seconds from the start of its bar to a beat mark of the plan. */
+function beatOffset(plan: PlaybackPlan, mark: BeatMark): number {
+  if (mark.beat === 0) return 0;
+  for (let k = plan.beats.indexOf(mark); k >= 0; k--) if (plan.beats[k]!.beat === 0) return mark.time - plan.beats[k]!.time;
+  return 0;
+}
+
+/**
+ * Where to continue in a new plan (edits, tempo or loop changed while playing) from time `t` of the old one: the
+ * same bar, the same distance into it in whole notes (so a tempo change keeps the place in the music); the new
+ * loop's start when that bar is no longer played; null when a play without loop is already past its new end.
+ * `pastFirstPass`: the loop has come round, so the bar is looked for in the loop body, not in the first pass.
+ * @example carryPosition(planAt96, 1.25, planAt150, false) // 0.8: beat 3 of bar 1 at either tempo
+ */
+export function carryPosition(old: PlaybackPlan, t: number, next: PlaybackPlan, pastFirstPass: boolean): number | null {
+  let at = t * (next.secondsPerWhole / old.secondsPerWhole);
+  const pos = positionAt(old, t);
+  if (pos) {
+    const intoBar = (t - (pos.time - beatOffset(old, pos))) / old.secondsPerWhole; // whole notes into the bar
+    const from = pos.countIn ? 0 : next.loop && pastFirstPass ? next.loop.start : next.countInSeconds;
+    const target = next.beats.find((m) => m.beat === 0 && m.bar === pos.bar && m.countIn === pos.countIn && m.time >= from - 1e-9);
+    if (target) at = target.time + intoBar * next.secondsPerWhole;
+    else if (next.loop) at = next.loop.start;
+  }
+  if (next.loop && at >= next.loop.end) at = next.loop.start + ((at - next.loop.start) % (next.loop.end - next.loop.start));
+  if (!next.loop && at >= next.end) return null;
+  return at;
+}

@@ -11,6 +11,7 @@ import { describe, expect, it } from "vitest";
 import { assertGroove, compileSchedule, emptyGroove, type GrooveDocumentInput } from "../../../src/lib/rhythm";
 import {
   buildPlaybackPlan,
+  carryPosition,
   CHOKE_SECONDS,
   CLICK_VELOCITY,
   FLAM_GRACE_SECONDS,
@@ -236,5 +237,39 @@ describe("keys held across the loop seam", () => {
   it("without a loop, both pieces are plain notes", () => {
     const notes = buildPlaybackPlan(tied).events.filter((e) => e.voice === "keys");
     expect(notes.map((n) => [n.time, n.duration, n.firstPassOnly ?? false])).toEqual([[0, 1, false], [7, 1, false]]);
+  });
+});
+
+describe("carrying the position over a change while playing", () => {
+  const at = (bpm: number, bars = 4) => groove({ bars, tempo: { bpm, beatNote: "1/4" } });
+
+  it("keeps the place in the music across a tempo change (beat 3 of bar 2 stays beat 3 of bar 2)", () => {
+    const slow = buildPlaybackPlan(at(60), { loopRange: { startBar: 0, endBar: 4 } });
+    const fast = buildPlaybackPlan(at(120), { loopRange: { startBar: 0, endBar: 4 } });
+    // Quarter = 60: bar 2 (index 1) starts at 4 s; beat 3 and a half is 2.5 s into it.
+    const t = carryPosition(slow, 6.5, fast, false)!;
+    close(t, 3.25); // the same place at quarter = 120
+    expect(positionAt(fast, t)).toMatchObject({ bar: 1, beat: 2 });
+  });
+
+  it("keeps the bar when the loop range shrinks around it, and jumps to the new loop when it leaves it", () => {
+    const all = buildPlaybackPlan(at(60), { loopRange: { startBar: 0, endBar: 4 } });
+    const middle = buildPlaybackPlan(at(60), { loopRange: { startBar: 2, endBar: 4 } });
+    close(carryPosition(all, 9, middle, true)!, 1); // bar 3, beat 2 → 1 s into the new body [2, 3]
+    expect(carryPosition(all, 1, middle, true)).toBe(0); // bar 1 is no longer played
+  });
+
+  it("follows a count-in added or removed while the groove plays", () => {
+    const plain = buildPlaybackPlan(at(60), { loopRange: { startBar: 0, endBar: 4 } });
+    const counted = buildPlaybackPlan(at(60), { loopRange: { startBar: 0, endBar: 4 }, countInBars: 1 });
+    close(carryPosition(plain, 5, counted, false)!, 9); // bar 2, beat 2: 4 s later once the count-in comes first
+    close(carryPosition(counted, 9, plain, false)!, 5);
+  });
+
+  it("ends a play without loop that is already past the new end", () => {
+    const long = buildPlaybackPlan(at(60, 4));
+    const short = buildPlaybackPlan(at(60, 2));
+    expect(carryPosition(long, 13, short, false)).toBeNull();
+    close(carryPosition(long, 5, short, false)!, 5);
   });
 });
