@@ -629,14 +629,16 @@ export function pasteBars(doc: GrooveDocument, clip: BarClip, atBar: number): Ed
 }
 
 /**
- * Repeat bars [start, start+count) right after themselves.
+ * Repeat bars [start, start+count) right after themselves. The copies join the section of the last copied
+ * bar (not the section after it, which an insertion at a section's first bar would grow).
  * @example duplicateBar(doc, 0) // bar 1 twice
  */
 export function duplicateBar(doc: GrooveDocument, start: number, count = 1): GrooveDocument {
   requireBarRange(doc, start, count);
   const clip = copyBars(doc, start, count);
   const opened = insertBar(doc, start + count, count);
-  return pasteBars(opened, clip, start + count).doc;
+  const out = pasteBars(opened, clip, start + count).doc;
+  return doc.sections.length === 0 ? out : { ...out, sections: sectionsAfterInsert(doc, start + count - 1, count) };
 }
 
 // ---------------------------------------------------------------------------------------------------------------

@@ -13,3 +13,4 @@ export * from "./describe-position";
 export * from "./readings";
 export * from "./editing";
 export * from "./tap-tempo";
+export * from "./sections";
