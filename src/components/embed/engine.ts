@@ -16,6 +16,7 @@ import type { IslandState, Session } from "./island";
 
 interface Drawn {
   head: HTMLElement;
+  line: HTMLElement;
   layout: IslandLayout;
   /** Written bar → its entry in layout.bars. */
   bars: Map<number, number[]>;
@@ -55,7 +56,8 @@ function prepare(root: HTMLElement, data: IslandData): Reading[] {
     const heads = figure ? Array.from(figure.querySelectorAll<HTMLElement>(".tx-playhead")) : [];
     const drawn = heads.flatMap((head, i) => {
       const layout = r.layouts[i];
-      return layout ? [{ head, layout, bars: new Map(layout.bars.map((b) => [b[0]!, b])) }] : [];
+      const line = head.querySelector<HTMLElement>(".tx-line") ?? head;
+      return layout ? [{ head, line, layout, bars: new Map(layout.bars.map((b) => [b[0]!, b])) }] : [];
     });
     const doc = r.doc;
     const starts = beatStarts(doc.meter);
@@ -96,10 +98,9 @@ function place(reading: Reading, plan: PlaybackPlan, t: number): void {
     const x0 = tsBeat(mark.beat);
     const x1 = mark.beat + 1 < reading.beatIndex.length ? tsBeat(mark.beat + 1) : entry[3]!;
     const x = x0 + (x1 - x0) * frac;
-    const s = d.head.style;
-    s.left = `${(x / d.layout.w) * 100}%`;
-    s.top = `${(sys[0] / d.layout.h) * 100}%`;
-    s.height = `${((sys[1] - sys[0]) / d.layout.h) * 100}%`;
+    // Transforms only: moving the playhead must not count as a layout shift.
+    d.head.style.transform = `translate(${((x / d.layout.w) * 100).toFixed(3)}%, ${((sys[0] / d.layout.h) * 100).toFixed(3)}%)`;
+    d.line.style.height = `${(((sys[1] - sys[0]) / d.layout.h) * 100).toFixed(3)}%`;
     d.head.hidden = false;
   }
 }
