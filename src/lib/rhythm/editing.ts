@@ -378,6 +378,21 @@ export function resizeKeyNote(doc: GrooveDocument, at: RationalInput, pitch: num
   return { ...doc, keys: { ...doc.keys, notes } };
 }
 
+/**
+ * Set the velocity (1–127, MIDI note-on velocity) of the note of `pitch` that starts at `at`.
+ * @example setKeyNoteVelocity(doc, "0", 60, 40) // a soft middle C
+ */
+export function setKeyNoteVelocity(doc: GrooveDocument, at: RationalInput, pitch: number, velocity: number): GrooveDocument {
+  if (!Number.isInteger(velocity) || velocity < 1 || velocity > 127) throw new RhythmError(`velocity ${velocity} is not from 1 to 127`);
+  const key = fmt(at);
+  const i = doc.keys.notes.findIndex((n) => n.at === key && n.pitch === pitch);
+  if (i === -1) throw new RhythmError(`no note of pitch ${pitch} starts at ${key}`);
+  if (doc.keys.notes[i]!.velocity === velocity) return doc;
+  const notes = doc.keys.notes.slice();
+  notes[i] = { ...notes[i]!, velocity };
+  return { ...doc, keys: { ...doc.keys, notes } };
+}
+
 /** Remove the note of `pitch` that starts at `at`. */
 export function removeKeyNote(doc: GrooveDocument, at: RationalInput, pitch: number): GrooveDocument {
   const key = fmt(at);

@@ -21,6 +21,7 @@ import {
   paintRun,
   pasteBars,
   removeKeyNote,
+  setKeyNoteVelocity,
   removeLane,
   resizeKeyNote,
   setArticulation,
@@ -184,6 +185,17 @@ describe("keys notes", () => {
   it("removes a note by start and pitch", () => {
     const doc = removeKeyNote(rockBeat(), "0", 60);
     expect(doc.keys.notes.map((n) => n.pitch)).toEqual([64]);
+  });
+
+  it("sets a note's velocity inside MIDI's 1–127 (MIDI 1.0 note-on velocity is 7-bit; 0 means note-off)", () => {
+    const before = rockBeat();
+    const doc = valid(setKeyNoteVelocity(before, "0", 64, 40));
+    expect(doc.keys.notes.map((n) => [n.pitch, n.velocity])).toEqual([[60, 90], [64, 40]]);
+    expect(doc.kit).toBe(before.kit);
+    expect(setKeyNoteVelocity(doc, "0", 64, 40)).toBe(doc); // no change, no new document
+    expect(() => setKeyNoteVelocity(before, "0", 64, 0)).toThrow(/1 to 127/);
+    expect(() => setKeyNoteVelocity(before, "0", 64, 128)).toThrow(/1 to 127/);
+    expect(() => setKeyNoteVelocity(before, "1/16", 64, 50)).toThrow(/no note/);
   });
 
   it("rejects pitches outside MIDI's 0–127 (MIDI 1.0 note numbers are 7-bit)", () => {
