@@ -166,6 +166,31 @@ function restKey(staff: StaffName, voice: "up" | "down" | "single"): string {
 }
 
 /**
+ * A StaveNote drawn without VexFlow's invisible hit-test rectangle: the editor never clicks the notation,
+ * and computing that rectangle (a full bounding box per note) was a large part of drawing a bar.
+ */
+class InkNote extends StaveNote {
+  override draw(): void {
+    if (this.renderOptions.draw === false) return;
+    const ctx = this.checkContext();
+    const xBegin = this.getNoteHeadBeginX();
+    for (const head of this.noteHeads) head.setX(xBegin);
+    const stem = this.getStem();
+    if (stem) {
+      const stemX = this.getStemX();
+      stem.setNoteHeadXBounds(stemX, stemX);
+    }
+    ctx.openGroup("stavenote", this.getAttribute("id"));
+    this.drawLedgerLines();
+    if (this.hasStem() && !this.getBeam()) this.drawStem();
+    this.drawNoteHeads();
+    this.drawFlag();
+    ctx.closeGroup();
+    this.setRendered();
+  }
+}
+
+/**
  * The VexFlow objects of one bar, ready to be measured and drawn.
  * @example const b = new BarBuild(score, bar, flags); b.minWidth(); b.draw(ctx, x, width, geometry)
  */
@@ -233,12 +258,12 @@ export class BarBuild {
         if (e.hidden) {
           note = new GhostNote({ duration, dots: e.value.dots });
         } else if (e.measure) {
-          const rest = new StaveNote({ keys: [restKey(staff, role)], duration: "w", type: "r", clef, alignCenter: true });
+          const rest = new InkNote({ keys: [restKey(staff, role)], duration: "w", type: "r", clef, alignCenter: true });
           // A whole rest fills the bar in any meter (MusicXML measure rest); give it the bar's ticks.
           rest.setIntrinsicTicks(Math.round(VexFlow.RESOLUTION * this.barLength));
           note = rest;
         } else {
-          const rest = new StaveNote({ keys: [restKey(staff, role)], duration, dots: e.value.dots, type: "r", clef });
+          const rest = new InkNote({ keys: [restKey(staff, role)], duration, dots: e.value.dots, type: "r", clef });
           if (e.value.dots > 0) Dot.buildAndAttach([rest], { all: true });
           note = rest;
         }
@@ -307,7 +332,7 @@ export class BarBuild {
     const duration = DURATION[e.value.type];
     const stemDirection = e.stem === "up" ? 1 : -1;
     const keys = e.heads.map((h) => (h.kind === "kit" ? kitKey(h) : pitchKey(h)));
-    const note = new StaveNote({ keys, duration, dots: e.value.dots, clef, stemDirection, autoStem: false });
+    const note = new InkNote({ keys, duration, dots: e.value.dots, clef, stemDirection, autoStem: false });
     if (e.value.dots > 0) Dot.buildAndAttach([note], { all: true });
     if (staff === "kit") this.kitMarks(note, e.heads as readonly Head[], stemDirection);
     else

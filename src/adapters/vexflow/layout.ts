@@ -59,8 +59,15 @@ export const MIN_LAYOUT_WIDTH = 540;
 
 /** Content of a bar as drawn: the cache key for measurements and drawings. */
 export function barContentKey(bar: NotationBar, keys: boolean): string {
-  return JSON.stringify([bar.length, bar.kit, keys ? bar.keys : null]);
+  const cached = contentKeys.get(bar);
+  if (cached && cached[0] === keys) return cached[1];
+  const key = JSON.stringify([bar.length, bar.kit, keys ? bar.keys : null]);
+  contentKeys.set(bar, [keys, key]);
+  return key;
 }
+
+/** Content keys by bar object: one JSON serialisation per bar per render, not one per use. */
+const contentKeys = new WeakMap<NotationBar, [boolean, string]>();
 
 function flagsKey(f: BarFlags): string {
   return `${+f.systemStart}${+f.timeSignature}${+f.tempo}${+f.final}${+f.keys}|${f.barNumber ?? ""}|${f.section ?? ""}`;
@@ -144,11 +151,28 @@ function sectionStarts(score: NotationScore): Map<number, string> {
   return m;
 }
 
+/** Systems of an earlier plan, to keep while they fit (for a drawing that is being edited). */
+export interface KeptLines {
+  readonly signature: string;
+  readonly lines: readonly (readonly number[])[];
+}
+
+/** What line breaks depend on besides the bars: kept lines are only reused under the same signature. */
+function planSignature(opts: RenderOptions, keys: boolean, from: number): string {
+  return `${Math.floor(opts.width)}|${keys}|${from}|${opts.maxBarsPerSystem ?? 4}`;
+}
+
+/** The lines of a plan, to pass as `keep` to the next planScore of the same drawing. */
+export function keptLines(plan: Plan, opts: RenderOptions, score: NotationScore): KeptLines {
+  const keys = (opts.showKeys ?? true) && score.hasKeys;
+  return { signature: planSignature(opts, keys, barRange(score, opts).from), lines: plan.systems.map((s) => s.bars) };
+}
+
 /**
  * Plan the systems for a width.
  * @example planScore(score, { width: 800 }, new BarCache()).systems.length // 2 for an 8-bar groove
  */
-export function planScore(score: NotationScore, opts: RenderOptions, cache: BarCache): Plan {
+export function planScore(score: NotationScore, opts: RenderOptions, cache: BarCache, keep?: KeptLines): Plan {
   const keys = (opts.showKeys ?? true) && score.hasKeys;
   const { from, to } = barRange(score, opts);
   const maxBars = Math.max(1, Math.floor(opts.maxBarsPerSystem ?? 4));
@@ -174,9 +198,22 @@ export function planScore(score: NotationScore, opts: RenderOptions, cache: BarC
   for (let i = from; i < to; i++) notes.push(cache.notesWidth(score, score.bars[i]!, flagsFor(i, i === from)));
   const startW = (i: number, start: boolean) => cache.startWidth(score, { systemStart: start, timeSignature: i === from, keys });
 
-  // Greedy line breaking with equal note room per bar.
+  // Line breaking with equal note room per bar. Systems of the previous drawing (`keep`) stay as they were
+  // while their bars still fit, so an edit does not reflow the page; the rest is filled greedily.
   const lines: { bars: number[]; area: number }[] = [];
   let i = from;
+  for (const line of keep?.signature === planSignature(opts, keys, from) ? keep.lines : []) {
+    if (line[0] !== i || line.length === 0 || line.length > maxBars || line[line.length - 1]! >= to) break;
+    let fixed = 0;
+    let widest = 0;
+    line.forEach((b, k) => {
+      fixed += startW(b, k === 0) + pad;
+      widest = Math.max(widest, notes[b - from]!);
+    });
+    if (fixed + widest * line.length > avail) break;
+    lines.push({ bars: [...line], area: (avail - fixed) / line.length });
+    i = line[line.length - 1]! + 1;
+  }
   while (i < to) {
     const bars = [i];
     let fixed = startW(i, true) + pad;
@@ -194,14 +231,18 @@ export function planScore(score: NotationScore, opts: RenderOptions, cache: BarC
     lines.push({ bars, area: Math.max(widest, (avail - fixed) / bars.length) });
     i = j;
   }
-  // A short system (fewer bars than fit) keeps the width bars get on a full one, instead of stretching.
-  const fullArea = lines.find((l) => l.bars.length === maxBars)?.area ?? (avail - startW(from, true) - maxBars * pad) / maxBars;
+  // Every system but the last is justified to the full width. The last one keeps the note room of the
+  // system before it instead of stretching a lone bar; a single short system gets the room of a full one.
+  const nominal = (avail - startW(from, true) - maxBars * pad) / maxBars;
   const plannedBars: PlannedBar[] = [];
   let y = 0;
   const systems: PlannedSystem[] = lines.map((line, s) => {
-    const ragged = line.bars.length < maxBars;
+    const last = s === lines.length - 1;
     const widest = Math.max(...line.bars.map((b) => notes[b - from]!));
-    const area = Math.floor(ragged ? Math.max(widest, Math.min(line.area, fullArea)) : line.area);
+    let area = line.area;
+    if (last && lines.length > 1) area = Math.max(widest, Math.min(line.area, lines[s - 1]!.area));
+    else if (last && line.bars.length < maxBars) area = Math.max(widest, Math.min(line.area, nominal));
+    area = Math.floor(area);
     let x = left;
     let marks = false;
     line.bars.forEach((b, k) => {
