@@ -38,6 +38,7 @@ import {
   resizeKeyNote,
   setArticulation,
   setDynamic,
+  setKeyNoteVelocity,
   stepCount,
   toggleHit,
   PASTED_OVER,
@@ -47,6 +48,16 @@ import {
 } from "../lib/rhythm/editing";
 import type { Dynamic, RationalInput } from "../lib/rhythm";
 import { q, fmt } from "../lib/rhythm";
+import {
+  addSection,
+  formSections,
+  mergeWithNext,
+  moveSectionStart,
+  removeSection,
+  renameSection,
+  setRepeats,
+  splitSectionAt,
+} from "../lib/rhythm/sections";
 import { DEFAULT_KEYS_RANGE, keysRows, pitchName } from "./selectors";
 
 export type Cursor = { area: "kit"; row: number; col: number } | { area: "keys"; pitch: number; col: number };
@@ -108,6 +119,8 @@ export interface EditorActions {
   noteTo(col: number): void;
   toggleNote(pitch: number, col: number): void;
   resizeNoteBy(pitch: number, col: number, steps: number): void;
+  /** Set the velocity (1–127) of the note sounding at this cell. */
+  setNoteVelocity(pitch: number, col: number, velocity: number): void;
   /** Finish a drag (paint or stretch): one history entry. A press on a note without moving removes it. */
   endGesture(): void;
   // bars
@@ -118,6 +131,18 @@ export interface EditorActions {
   pasteBars(atBar?: number): void;
   selectBar(bar: number, extend?: boolean): void;
   clearSelection(): void;
+  // song form (sections); each is one undo step
+  /** Make the whole groove one section, the start of a song form. */
+  startSongForm(name?: string): void;
+  addSection(opts?: { name?: string; bars?: number; repeats?: number }): void;
+  /** A new section starts at this bar (0-based). */
+  splitSection(bar: number, name?: string): void;
+  renameSection(index: number, name: string): void;
+  setSectionRepeats(index: number, repeats: number): void;
+  moveSectionStart(index: number, bar: number): void;
+  mergeSectionWithNext(index: number): void;
+  /** Remove a section's name and repeats; its bars join a neighbour. */
+  removeSection(index: number): void;
   // settings
   changeMeter(meter: Meter): void;
   changeGrid(step: string): void;
@@ -319,6 +344,10 @@ export function createEditorStore(init: EditorInit): EditorStore {
             if (next.compare(step) < 0) return;
             edit((d) => resizeKeyNote(d, held.at, pitch, fmt(next)));
           },
+          setNoteVelocity(pitch, col, velocity) {
+            const held = keyNoteAt(doc(), pitch, at(col));
+            if (held) edit((d) => setKeyNoteVelocity(d, held.at, pitch, velocity));
+          },
 
           endGesture() {
             const g = gesture;
@@ -388,6 +417,15 @@ export function createEditorStore(init: EditorInit): EditorStore {
             else set({ selection: { start: bar, count: 1 } });
           },
           clearSelection: () => set({ selection: null }),
+
+          startSongForm: (name) => edit((d) => formSections(d, name)),
+          addSection: (opts) => edit((d) => addSection(d, opts)),
+          splitSection: (bar, name) => edit((d) => splitSectionAt(d, bar, name)),
+          renameSection: (index, name) => edit((d) => renameSection(d, index, name)),
+          setSectionRepeats: (index, repeats) => edit((d) => setRepeats(d, index, repeats)),
+          moveSectionStart: (index, bar) => edit((d) => moveSectionStart(d, index, bar)),
+          mergeSectionWithNext: (index) => edit((d) => mergeWithNext(d, index)),
+          removeSection: (index) => edit((d) => removeSection(d, index)),
 
           changeMeter: (meter) => editReporting((d) => changeMeter(d, meter), `Meter changed to ${meter.beatsPerBar}/${meter.beatUnit}`),
           changeGrid: (step) => editReporting((d) => changeGrid(d, step), `Grid changed to ${step}`),
