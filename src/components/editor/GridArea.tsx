@@ -10,6 +10,7 @@ import { useShallow } from "zustand/react/shallow";
 import { gridColumns } from "../../stores/selectors";
 import { useEditor } from "./context";
 import { KeysLane } from "./KeysLane";
+import { SectionStrip } from "./SectionStrip";
 import { StepGrid } from "./StepGrid";
 
 /** The rendered column window, inclusive. */
@@ -96,6 +97,7 @@ export function GridArea({ menuRef }: { menuRef: React.MutableRefObject<(() => v
       <div className="tx-canvas">
         <div ref={cellProbe} className="tx-probe tx-probe-cell" aria-hidden="true" />
         <div ref={headProbe} className="tx-probe tx-probe-head" aria-hidden="true" />
+        <SectionStrip perBar={perBar} />
         <StepGrid columns={columns} shade={shade} first={first} last={last} menuRef={menuRef} />
         <KeysLane columns={columns} shade={shade} first={first} last={last} />
         {span && (

@@ -16,6 +16,7 @@ import { NotationPreview } from "./NotationPreview";
 import { NoticeBar } from "./NoticeBar";
 import { RenotatePanel } from "./RenotatePanel";
 import { SaveControls } from "./SaveControls";
+import { SectionsPanel } from "./SectionsPanel";
 import { ShortcutSheet } from "./ShortcutSheet";
 import { handleEditorKey } from "./shortcuts";
 import { TapTempo, type TapHandle } from "./TapTempo";
@@ -137,6 +138,7 @@ function EditorShell({ draft, onDiscard }: { draft: DraftInfo; onDiscard: () => 
       <NotationPreview doc={doc} playhead={playhead} label="Notation of this groove" />
       <div className="tx-panels">
         <MeterTempoPanel />
+        <SectionsPanel />
         <RenotatePanel />
       </div>
       <ShortcutSheet />

@@ -3,7 +3,7 @@
  * drag right to stretch; several pitches at one step make a chord. A press on a note without moving
  * removes it. Touch: a tap adds or removes; the Longer / Shorter buttons change the note at the cursor.
  */
-import { memo, useEffect, useId, useMemo, useRef, type PointerEvent as ReactPointerEvent } from "react";
+import { memo, useCallback, useEffect, useId, useMemo, useRef, useState, type PointerEvent as ReactPointerEvent } from "react";
 import { useShallow } from "zustand/react/shallow";
 import { q, type KeyNote } from "../../lib/rhythm";
 import { keyNoteAt } from "../../lib/rhythm/editing";
@@ -11,6 +11,11 @@ import { keysRows, pitchName, type GridColumn } from "../../stores/selectors";
 import { useActions, useEditor, useEditorStore } from "./context";
 import { Spacer } from "./Spacer";
 import { lineClass } from "./KitLane";
+import { NoteMenu, type NoteMenuTarget } from "./NoteMenu";
+import { DEFAULT_VELOCITY, NoteVelocity, velocityOpacity } from "./NoteVelocity";
+
+/** How long a touch must rest on a note to open the note menu (ms); common long-press timing. */
+const LONG_PRESS_MS = 500;
 
 const BLACK = new Set([1, 3, 6, 8, 10]);
 
@@ -21,12 +26,15 @@ const KeyCell = memo(function KeyCell(props: {
   col: GridColumn;
   part: Part;
   steps: number;
+  velocity: number;
   cursor: boolean;
   shade: boolean;
   label: string;
 }) {
-  const { pitch, col, part, steps, cursor, shade, label } = props;
-  const state = part === "" ? "empty" : part === "single" || part === "start" ? `note, ${steps} ${steps === 1 ? "step" : "steps"} long` : "note held";
+  const { pitch, col, part, steps, velocity, cursor, shade, label } = props;
+  // The default velocity is not announced, as a normal kit hit is just "hit".
+  const vel = velocity === DEFAULT_VELOCITY ? "" : `, velocity ${velocity}`;
+  const state = part === "" ? "empty" : part === "single" || part === "start" ? `note, ${steps} ${steps === 1 ? "step" : "steps"} long${vel}` : "note held";
   return (
     <div
       role="gridcell"
@@ -38,7 +46,7 @@ const KeyCell = memo(function KeyCell(props: {
       aria-label={`Keys ${label}, ${col.where}: ${state}`}
       className={`tx-cell tx-kcell${lineClass(col)}${cursor ? " is-cursor" : ""}${shade ? " is-shade" : ""}`}
     >
-      {part && <span className="tx-note" data-part={part} aria-hidden="true" />}
+      {part && <span className="tx-note" data-part={part} aria-hidden="true" style={{ opacity: velocityOpacity(velocity) }} />}
     </div>
   );
 });
@@ -57,13 +65,13 @@ const KeyRow = memo(function KeyRow(props: {
   const step = useEditor((s) => s.doc.grid.step);
   const cursorCol = useEditor((s) => (s.cursor.area === "keys" && s.cursor.pitch === pitch ? s.cursor.col : -1));
   const parts = useMemo(() => {
-    const out: { part: Part; steps: number }[] = columns.map(() => ({ part: "", steps: 0 }));
+    const out: { part: Part; steps: number; velocity: number }[] = columns.map(() => ({ part: "", steps: 0, velocity: 0 }));
     const st = q(step);
     for (const n of notes as KeyNote[]) {
       const first = Number(q(n.at).div(st).valueOf());
       const len = Number(q(n.duration).div(st).valueOf());
       for (let i = 0; i < len && first + i < out.length; i++)
-        out[first + i] = { part: len === 1 ? "single" : i === 0 ? "start" : i === len - 1 ? "end" : "held", steps: len };
+        out[first + i] = { part: len === 1 ? "single" : i === 0 ? "start" : i === len - 1 ? "end" : "held", steps: len, velocity: n.velocity };
     }
     return out;
   }, [notes, step, columns]);
@@ -82,6 +90,7 @@ const KeyRow = memo(function KeyRow(props: {
           col={c}
           part={parts[c.col]!.part}
           steps={parts[c.col]!.steps}
+          velocity={parts[c.col]!.velocity}
           cursor={c.col === cursorCol}
           shade={shade[c.col]!}
           label={label}
@@ -102,7 +111,9 @@ export function KeysLane({ columns, shade, first, last }: { columns: GridColumn[
   const cursorNote = useEditor((s) => (s.cursor.area === "keys" ? keyNoteAt(s.doc, s.cursor.pitch, columnsAt(s.doc.grid.step, s.cursor.col)) : undefined));
   const gridRef = useRef<HTMLDivElement>(null);
   const dragging = useRef(false);
-  const touch = useRef<{ pitch: number; col: number } | null>(null);
+  const touch = useRef<{ pitch: number; col: number; timer: number; opened: boolean } | null>(null);
+  const [menu, setMenu] = useState<NoteMenuTarget | null>(null);
+  const closeMenu = useCallback(() => setMenu(null), []);
   const open = useEditor((s) => s.keysOpen);
   const gridId = useId();
 
@@ -137,7 +148,14 @@ export function KeysLane({ columns, shade, first, last }: { columns: GridColumn[
     const col = Number(cell.dataset.col);
     actions.setCursor({ area: "keys", pitch, col });
     if (e.pointerType === "touch") {
-      touch.current = { pitch, col };
+      // A tap adds or removes on release; a long press on a note opens the note menu.
+      const timer = window.setTimeout(() => {
+        if (!touch.current || !keyNoteAt(store.getState().doc, pitch, columnsAt(store.getState().doc.grid.step, col))) return;
+        touch.current.opened = true;
+        const r = cell.getBoundingClientRect();
+        setMenu({ pitch, col, x: r.left, y: r.bottom });
+      }, LONG_PRESS_MS);
+      touch.current = { pitch, col, timer, opened: false };
       return;
     }
     e.preventDefault();
@@ -154,7 +172,23 @@ export function KeysLane({ columns, shade, first, last }: { columns: GridColumn[
   const onPointerUp = (e: ReactPointerEvent) => {
     const t = touch.current;
     touch.current = null;
-    if (t && e.pointerType === "touch") actions.toggleNote(t.pitch, t.col);
+    if (t) window.clearTimeout(t.timer);
+    if (t && !t.opened && e.pointerType === "touch") actions.toggleNote(t.pitch, t.col);
+  };
+  const cancelTouch = () => {
+    if (touch.current) window.clearTimeout(touch.current.timer);
+    touch.current = null;
+  };
+  // Right-click on a note: put the cursor there and open the note menu (a plain press would remove it).
+  const onContextMenu = (e: React.MouseEvent) => {
+    const cell = cellOf(e.target);
+    if (!cell) return;
+    e.preventDefault();
+    cancelTouch();
+    const pitch = Number(cell.dataset.pitch);
+    const col = Number(cell.dataset.col);
+    actions.setCursor({ area: "keys", pitch, col });
+    if (keyNoteAt(store.getState().doc, pitch, columnsAt(store.getState().doc.grid.step, col))) setMenu({ pitch, col, x: e.clientX, y: e.clientY });
   };
 
   const shift = (semitones: number) => {
@@ -192,6 +226,7 @@ export function KeysLane({ columns, shade, first, last }: { columns: GridColumn[
         >
           Shorter
         </button>
+        <NoteVelocity pitch={c.area === "keys" ? c.pitch : null} col={c.col} />
       </div>
       <div
         ref={gridRef}
@@ -205,7 +240,8 @@ export function KeysLane({ columns, shade, first, last }: { columns: GridColumn[
         onPointerDown={onPointerDown}
         onPointerOver={onPointerOver}
         onPointerUp={onPointerUp}
-        onPointerCancel={() => (touch.current = null)}
+        onPointerCancel={cancelTouch}
+        onContextMenu={onContextMenu}
         onFocus={(e) => {
           const c = cellOf(e.target);
           if (c) actions.setCursor({ area: "keys", pitch: Number(c.dataset.pitch), col: Number(c.dataset.col) });
@@ -215,6 +251,7 @@ export function KeysLane({ columns, shade, first, last }: { columns: GridColumn[
           <KeyRow key={p} pitch={p} index={i} columns={columns} shade={shade} split={p === splitPitch} first={first} last={last} />
         ))}
       </div>
+      {menu && <NoteMenu target={menu} onClose={closeMenu} gridRef={gridRef} />}
     </div>
   );
 }
