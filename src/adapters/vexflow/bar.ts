@@ -434,7 +434,7 @@ export class BarBuild {
     const bass = this.staves.get("bass");
     treble?.setX(x).setWidth(width).setY(g.trebleTop - 4 * LINE_SPACING);
     bass?.setX(x).setWidth(width).setY(g.bassTop - 4 * LINE_SPACING);
-    if (f.barNumber !== null) kit.setMeasure(f.barNumber);
+
     // Section name (boxed) at the bar's left edge, the tempo mark after it, both on the marks row.
     let markX = 0;
     if (f.section) markX = drawSectionLabel(ctx, f.section, x, MARKS_BASELINE) + 12;
@@ -460,13 +460,16 @@ export class BarBuild {
 
     for (const s of this.staves.values()) s.setContext(ctx).draw();
     if (treble && bass) {
+      ctx.openGroup("staveconnector");
       new StaveConnector(treble, bass).setType("singleRight").setContext(ctx).draw();
       if (f.systemStart) {
         new StaveConnector(treble, bass).setType("brace").setContext(ctx).draw();
         new StaveConnector(kit, bass).setType("singleLeft").setContext(ctx).draw();
       }
       if (f.final) new StaveConnector(treble, bass).setType("boldDoubleRight").setContext(ctx).draw();
+      ctx.closeGroup();
     }
+    if (f.barNumber !== null) drawBarNumber(ctx, f.barNumber, x, g.kitTop - 7);
     for (const v of this.voices) v.voice.draw(ctx, this.staves.get(v.staff)!);
     for (const b of this.beams) b.setContext(ctx).draw();
     for (const t of this.tuplets) t.setContext(ctx).draw();
@@ -523,6 +526,17 @@ export class BarBuild {
 /** The Formatter's minimum is tight: give notes some air so a bar reads comfortably. */
 function comfortable(minNotes: number): number {
   return Math.ceil(minNotes * 1.15 + 12);
+}
+
+/** The bar number above the start of a system, centred on the system's left edge (its own group). */
+function drawBarNumber(ctx: RenderContext, n: number, x: number, y: number): void {
+  ctx.openGroup("barnumber");
+  ctx.save();
+  ctx.setFont("Academico", 8);
+  const w = ctx.measureText(String(n)).width;
+  ctx.fillText(String(n), x - w / 2, y);
+  ctx.restore();
+  ctx.closeGroup();
 }
 
 /** A boxed section name with its baseline at y; returns the box width. */

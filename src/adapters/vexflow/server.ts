@@ -47,6 +47,14 @@ function setUp(): Dom {
   return dom;
 }
 
+/**
+ * Make VexFlow measure text from the font files in this process (done by every server render; exported for
+ * tests that drive the browser renderer under jsdom).
+ */
+export function useFontFileMetrics(): void {
+  setUp();
+}
+
 /** Run `fn` with jsdom's document as the global one, then restore whatever was there. */
 function withDocument<T>(fn: () => T): T {
   const { window } = setUp();

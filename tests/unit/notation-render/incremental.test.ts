@@ -1,0 +1,83 @@
+// @vitest-environment jsdom
+/**
+ * The browser renderer (NotationRenderer) under jsdom, with text measured from the font files: an edit
+ * redraws only the bar it changed, the result is the same as drawing from scratch, line breaks stay put while
+ * bars still fit, and the playhead overlay moves without touching the SVG.
+ */
+import { describe, expect, it } from "vitest";
+import { useFontFileMetrics } from "../../../src/adapters/vexflow/server";
+import { NotationRenderer } from "../../../src/adapters/vexflow/view";
+import { spellGroove, toggleHit } from "../../../src/lib/rhythm";
+import { every, groove } from "./svg";
+
+useFontFileMetrics();
+
+const base = groove({ bars: 4, kit: { "hihat-closed": every(1, 32, 8), snare: ["1/4", "3/4", "5/4", "7/4", "9/4", "11/4", "13/4", "15/4"], kick: every(1, 4, 1) } });
+
+/** The SVG without VexFlow's running element ids (they differ between two drawings of the same thing). */
+const canonical = (svg: Element) => svg.outerHTML.replace(/ id="vf-auto\d+"/g, "");
+
+function mount(width = 1000) {
+  const host = document.createElement("div");
+  document.body.appendChild(host);
+  return { host, r: new NotationRenderer(host), width };
+}
+
+describe("incremental notation", () => {
+  it("redraws only the changed bar and keeps the other bars' elements", () => {
+    const { r, width } = mount();
+    r.update(spellGroove(base), { width });
+    expect(r.lastStats.barsDrawn).toBe(4);
+    const before = [...r.svg!.querySelectorAll("g.tx-bar")];
+    const edited = toggleHit(base, "snare", "19/16"); // bar 2 (0-based 1), beat 2 "a"
+    r.update(spellGroove(edited), { width });
+    expect(r.lastStats.barsDrawn).toBe(1);
+    const after = [...r.svg!.querySelectorAll("g.tx-bar")];
+    const same = after.filter((g) => before.includes(g)).map((g) => g.getAttribute("data-bar"));
+    expect(same.sort()).toEqual(["0", "2", "3"]);
+  });
+
+  it("ends with the same drawing as a fresh render", () => {
+    const a = mount();
+    a.r.update(spellGroove(base), { width: a.width });
+    let doc = base;
+    for (const at of ["3/16", "21/16", "37/16", "53/16", "3/16"]) {
+      doc = toggleHit(doc, "kick", at);
+      a.r.update(spellGroove(doc), { width: a.width });
+    }
+    const b = mount();
+    b.r.update(spellGroove(doc), { width: b.width });
+    expect(canonical(a.r.svg!)).toBe(canonical(b.r.svg!));
+  });
+
+  it("does not reflow systems while the bars still fit, and redraws everything for a new width", () => {
+    const { r } = mount(900);
+    const first = r.update(spellGroove(base), { width: 900 });
+    // Sixteenths on the off-beats of every bar make every bar wider.
+    const busy = every(2, 32, 16, 1).reduce((d, at) => toggleHit(d, "tom-high", at), base);
+    const second = r.update(spellGroove(busy), { width: 900 });
+    const third = r.update(spellGroove(base), { width: 900 });
+    expect(third.systems.map((s) => s.bars)).toEqual(second.systems.map((s) => s.bars));
+    // The busier bars needed more systems; going back keeps them (a fresh drawing would not).
+    expect(first.systems.length).toBeLessThan(second.systems.length);
+    r.update(spellGroove(base), { width: 600 });
+    expect(r.lastStats.barsDrawn).toBe(4);
+  });
+
+  it("moves the playhead overlay to the bar and beat without redrawing", () => {
+    const { r, width, host } = mount();
+    const layout = r.update(spellGroove(base), { width });
+    const svgBefore = r.svg!.outerHTML;
+    r.highlight({ bar: 2, beat: 1 });
+    const bar = layout.bars.find((b) => b.bar === 2)!;
+    const box = host.querySelector<HTMLElement>(".tx-playhead-bar")!;
+    const line = host.querySelector<HTMLElement>(".tx-playhead-beat")!;
+    expect(box.style.display).toBe("block");
+    expect(box.style.transform).toContain(`translate(${bar.x0}px`);
+    expect(box.style.width).toBe(`${bar.x1 - bar.x0}px`);
+    expect(line.style.transform).toContain(`translate(${bar.beats[1]! - 1}px`);
+    expect(r.svg!.outerHTML).toBe(svgBefore);
+    r.highlight(null);
+    expect(box.style.display).toBe("none");
+  });
+});
