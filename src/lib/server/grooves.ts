@@ -146,79 +146,138 @@ export interface ListResult {
 
 const owner = alias(users, "owner");
 
+/** What decides the SQL text of a list query (values travel as parameters). */
+interface ListShape {
+  scope: ListQuery["scope"];
+  who: "anonymous" | "member" | "admin";
+  q: boolean;
+  tag: boolean;
+  owner: boolean;
+  sort: ListQuery["sort"];
+  dir: ListQuery["dir"];
+}
+
 /**
- * The library list: what the actor may see, filtered, sorted and paged.
- * @example await listGrooves(user, { scope: "all", sort: "updated", dir: "desc", page: 1, pageSize: 25 })
+ * Builds the list query of one shape with placeholders ($me, $q, $tag, $owner, $limit, $offset). The page and its
+ * total come back in one round trip: the total is an uncorrelated sub-select (computed once), counting at most
+ * COUNT_CAP + 1 matches.
  */
-export async function listGrooves(actor: SessionUser | null, query: ListQuery): Promise<ListResult> {
-  const db = getDb();
-  const me = actor?.id ?? "";
-  const admin = actor?.siteRole === "admin";
+function buildListStatement(shape: ListShape) {
+  const me = sql.placeholder("me");
   const where: SQL[] = [];
   const mine = eq(grooves.ownerId, me);
   // A hashed semi-join: cheaper than joining collaborators to every groove when only the visible ones count.
   const shared = sql`${grooves.id} in (select ${collaborators.grooveId} from ${collaborators} where ${collaborators.userId} = ${me})`;
   const isPublic = eq(grooves.visibility, "public");
+  if (shape.scope === "trash") {
+    where.push(isNotNull(grooves.deletedAt), sql`${grooves.deletedAt} > now() - interval '30 days'`);
+    if (shape.who !== "admin") where.push(mine);
+  } else {
+    where.push(isNull(grooves.deletedAt));
+    if (shape.scope === "mine") where.push(mine);
+    else if (shape.scope === "shared") where.push(shared);
+    else if (shape.scope === "public") where.push(isPublic);
+    else if (shape.who === "member") where.push(or(mine, shared, isPublic)!);
+    else if (shape.who === "anonymous") where.push(isPublic);
+  }
+  if (shape.q) where.push(or(ilike(grooves.title, sql.placeholder("q")), ilike(grooves.description, sql.placeholder("q")))!);
+  if (shape.tag) where.push(sql`${grooves.tags} @> array[${sql.placeholder("tag")}]::text[]`);
+  if (shape.owner) where.push(eq(grooves.ownerId, sql.placeholder("owner")));
+  const condition = and(...where);
+  // Title sorting uses the (lower(title), id) index; times use their own indexes, so a page stops after its rows.
+  const order = shape.dir === "asc" ? asc : desc;
+  const orderBy =
+    shape.sort === "title"
+      ? [order(sql`lower(${grooves.title})`), order(grooves.id)]
+      : shape.sort === "created"
+        ? [order(grooves.createdAt), order(grooves.id)]
+        : [order(grooves.updatedAt), order(grooves.id)];
+  const name = `grooves_list_${shape.scope}_${shape.who}_${shape.q ? "q" : ""}${shape.tag ? "t" : ""}${shape.owner ? "o" : ""}_${shape.sort}_${shape.dir}`;
+  return getDb()
+    .select({
+      groove: {
+        id: grooves.id,
+        title: grooves.title,
+        description: grooves.description,
+        tags: grooves.tags,
+        visibility: grooves.visibility,
+        ownerId: grooves.ownerId,
+        latestVersionId: grooves.latestVersionId,
+        forkedFromId: grooves.forkedFromId,
+        createdAt: grooves.createdAt,
+        updatedAt: grooves.updatedAt,
+        deletedAt: grooves.deletedAt,
+      },
+      ownerName: owner.displayName,
+      collaboratorRole: collaborators.role,
+      latestNumber: grooveVersions.number,
+      // Inside the sub-select "grooves" and "collaborators" name its own FROM items (the nearest scope).
+      total: sql<number>`(select count(*)::int from (select 1 from ${grooves} where ${condition} limit ${COUNT_CAP + 1}) as matching)`.mapWith(Number),
+    })
+    .from(grooves)
+    .innerJoin(owner, eq(owner.id, grooves.ownerId))
+    .leftJoin(collaborators, and(eq(collaborators.grooveId, grooves.id), eq(collaborators.userId, me)))
+    .leftJoin(grooveVersions, eq(grooveVersions.id, grooves.latestVersionId))
+    .where(condition)
+    .orderBy(...orderBy)
+    .limit(sql.placeholder("limit"))
+    .offset(sql.placeholder("offset"))
+    .prepare(name);
+}
 
+type ListStatement = ReturnType<typeof buildListStatement>;
+const listStatements = new Map<string, ListStatement>();
+
+/**
+ * The library list: what the actor may see, filtered, sorted and paged.
+ * Each shape of query is a named prepared statement (built and planned once per connection, not per request).
+ * @example await listGrooves(user, { scope: "all", sort: "updated", dir: "desc", page: 1, pageSize: 25 })
+ */
+export async function listGrooves(actor: SessionUser | null, query: ListQuery): Promise<ListResult> {
+  const me = actor?.id ?? "";
   if (query.scope === "trash") {
     if (!actor) throw new ApiError(401, "unauthenticated", "Sign in first.");
     // Housekeeping where it is visible: grooves past their 30 days leave for good before the trash is shown.
     await purgeExpiredGrooves();
-    where.push(isNotNull(grooves.deletedAt), sql`${grooves.deletedAt} > now() - interval '30 days'`);
-    if (!admin) where.push(mine);
-  } else {
-    where.push(isNull(grooves.deletedAt));
-    if (query.scope === "mine") where.push(mine);
-    else if (query.scope === "shared") where.push(shared);
-    else if (query.scope === "public") where.push(isPublic);
-    else if (!admin) where.push(actor ? or(mine, shared, isPublic)! : isPublic);
   }
-  if (query.q) where.push(or(ilike(grooves.title, likePattern(query.q)), ilike(grooves.description, likePattern(query.q)))!);
-  if (query.tag) where.push(sql`${grooves.tags} @> array[${query.tag.trim().toLowerCase()}]::text[]`);
-  if (query.owner) where.push(eq(grooves.ownerId, query.owner === "me" ? me : query.owner));
-  const condition = and(...where);
-
-  // Title sorting uses the (lower(title), id) index; times use their own indexes, so a page stops after its rows.
-  const order = query.dir === "asc" ? asc : desc;
-  const orderBy =
-    query.sort === "title"
-      ? [order(sql`lower(${grooves.title})`), order(grooves.id)]
-      : query.sort === "created"
-        ? [order(grooves.createdAt), order(grooves.id)]
-        : [order(grooves.updatedAt), order(grooves.id)];
-  const [rows, [counted]] = await Promise.all([
-    db
-      .select({
-        groove: {
-          id: grooves.id,
-          title: grooves.title,
-          description: grooves.description,
-          tags: grooves.tags,
-          visibility: grooves.visibility,
-          ownerId: grooves.ownerId,
-          latestVersionId: grooves.latestVersionId,
-          forkedFromId: grooves.forkedFromId,
-          createdAt: grooves.createdAt,
-          updatedAt: grooves.updatedAt,
-          deletedAt: grooves.deletedAt,
-        },
-        ownerName: owner.displayName,
-        collaboratorRole: collaborators.role,
-        latestNumber: grooveVersions.number,
-      })
-      .from(grooves)
-      .innerJoin(owner, eq(owner.id, grooves.ownerId))
-      .leftJoin(collaborators, and(eq(collaborators.grooveId, grooves.id), eq(collaborators.userId, me)))
-      .leftJoin(grooveVersions, eq(grooveVersions.id, grooves.latestVersionId))
-      .where(condition)
-      .orderBy(...orderBy)
-      .limit(query.pageSize)
-      .offset((query.page - 1) * query.pageSize),
-    // Counting stops at COUNT_CAP + 1 rows: a list of thousands says "1,000+" instead of scanning all of them.
-    db.execute<{ n: number }>(sql`select count(*)::int as n from (select 1 from ${grooves} where ${condition} limit ${COUNT_CAP + 1}) as matching`).then((r) => r.rows),
-  ]);
-  const totalCapped = (counted?.n ?? 0) > COUNT_CAP;
-  const total = Math.min(counted?.n ?? 0, COUNT_CAP);
+  const shape: ListShape = {
+    scope: query.scope,
+    who: !actor ? "anonymous" : actor.siteRole === "admin" ? "admin" : "member",
+    q: Boolean(query.q),
+    tag: Boolean(query.tag),
+    owner: Boolean(query.owner),
+    sort: query.sort,
+    dir: query.dir,
+  };
+  const key = JSON.stringify(shape);
+  let statement = listStatements.get(key);
+  if (!statement) {
+    statement = buildListStatement(shape);
+    listStatements.set(key, statement);
+  }
+  const rows = await statement.execute({
+    me,
+    q: query.q ? likePattern(query.q) : "",
+    tag: query.tag?.trim().toLowerCase() ?? "",
+    owner: query.owner === "me" ? me : (query.owner ?? ""),
+    limit: query.pageSize,
+    offset: (query.page - 1) * query.pageSize,
+  });
+  let counted = rows[0]?.total;
+  if (counted === undefined) {
+    // An empty page (past the end): ask for the total alone.
+    const first = await statement.execute({
+      me,
+      q: query.q ? likePattern(query.q) : "",
+      tag: query.tag?.trim().toLowerCase() ?? "",
+      owner: query.owner === "me" ? me : (query.owner ?? ""),
+      limit: 1,
+      offset: 0,
+    });
+    counted = first[0]?.total ?? 0;
+  }
+  const totalCapped = counted > COUNT_CAP;
+  const total = Math.min(counted, COUNT_CAP);
   const who: Actor | null = actor ? { id: actor.id, siteRole: actor.siteRole } : null;
   return {
     items: rows.map((r) => ({
