@@ -121,6 +121,7 @@ export function KeysLane({ columns, shade, first, last }: { columns: GridColumn[
     const grid = gridRef.current;
     // Follow the cursor when the focus is anywhere in the grids (arrow keys cross from the kit into the keys).
     if (!grid || cursor.area !== "keys" || !grid.closest(".tx-canvas")?.contains(document.activeElement)) return;
+    if (document.activeElement?.closest(".tx-menu")) return; // the note menu keeps the focus it took
     const cell = grid.querySelector<HTMLElement>(`[data-pcell][data-pitch="${cursor.pitch}"][data-col="${cursor.col}"]`);
     if (cell && cell !== document.activeElement) cell.focus();
   }, [cursor]);
