@@ -7,6 +7,8 @@
 // BENCH_SERVER_ENTRY), runs, then drops the scratch database. BENCH_SECONDS sets each run's length (default 10).
 import { spawn } from "node:child_process";
 import { createHash, randomBytes } from "node:crypto";
+import { readFileSync } from "node:fs";
+import { cpus } from "node:os";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
 import autocannon from "autocannon";
@@ -128,8 +130,37 @@ function cannon(opts) {
   });
 }
 
+/** CPU seconds used so far by a process (Linux /proc; null elsewhere). */
+function cpuSeconds(pid) {
+  try {
+    const fields = readFileSync(`/proc/${pid}/stat`, "utf8").split(") ")[1].split(" ");
+    return (Number(fields[11]) + Number(fields[12])) / 100; // utime + stime, in clock ticks of 10 ms
+  } catch {
+    return null;
+  }
+}
+
+/** Load average over the last minute: latency figures mean little when other work shares the cores. */
+function loadAverage() {
+  try {
+    return readFileSync("/proc/loadavg", "utf8").split(" ")[0];
+  } catch {
+    return "?";
+  }
+}
+
+/** Runs autocannon and adds the server's CPU time per request (a figure that other load on the machine disturbs less). */
+async function measure(opts) {
+  const before = cpuSeconds(server.pid);
+  const result = await cannon(opts);
+  const after = cpuSeconds(server.pid);
+  result.serverCpuMsPerRequest = before === null || after === null ? null : ((after - before) * 1000) / Math.max(1, result.requests.total);
+  return result;
+}
+
 function report(name, r, target) {
-  const line = `${name}: ${Math.round(r.requests.average)} req/s, latency p50 ${r.latency.p50} ms, p90 ${r.latency.p90} ms, p99 ${r.latency.p99} ms, max ${r.latency.max} ms; ${r.requests.total} requests, ${r.non2xx} non-2xx, ${r.errors} errors, ${r.timeouts} timeouts`;
+  const cpu = r.serverCpuMsPerRequest === null ? "" : `, server CPU ${r.serverCpuMsPerRequest.toFixed(2)} ms/request`;
+  const line = `${name}: ${Math.round(r.requests.average)} req/s, latency p50 ${r.latency.p50} ms, p90 ${r.latency.p90} ms, p99 ${r.latency.p99} ms, max ${r.latency.max} ms; ${r.requests.total} requests, ${r.non2xx} non-2xx, ${r.errors} errors, ${r.timeouts} timeouts${cpu}; load average ${loadAverage()} on ${cpus().length} cores`;
   const ok = r.latency.p99 < target && r.non2xx === 0 && r.errors === 0;
   say(`${line} → ${ok ? "within" : "OVER"} the target p99 < ${target} ms`);
   return ok;
@@ -172,8 +203,8 @@ try {
   const token = randomBytes(20).toString("base64url");
   await pool.query("insert into sessions (id, user_id, expires_at, created_at) values ($1, 'usr_bench_0', now() + interval '1 day', now())", [sha256(token)]);
   const headers = { cookie: `tactus_session=${token}`, "content-type": "application/json" };
-  const total = (await (await fetch(`${base}/api/grooves?pageSize=1`, { headers })).json()).total;
-  say(`server at ${base}; the bench user sees ${total} grooves (own, shared, public)`);
+  const first = await (await fetch(`${base}/api/grooves?pageSize=1`, { headers })).json();
+  say(`server at ${base}; the bench user sees ${first.total}${first.totalCapped ? "+" : ""} grooves (own, shared, public)`);
 
   // Warm-up, then the measured runs.
   await cannon({ url: `${base}/api/grooves`, headers, duration: 2 });
@@ -188,7 +219,7 @@ try {
     "/api/grooves?pageSize=25&scope=public&sort=created&dir=asc",
   ];
   let n = 0;
-  const list = await cannon({
+  const list = await measure({
     url: base,
     headers,
     requests: [{ method: "GET", setupRequest: (req) => ({ ...req, path: listPaths[n++ % listPaths.length] }) }],
@@ -201,7 +232,7 @@ try {
   const own = (await pool.query("select id, latest_version_id from grooves where owner_id = 'usr_bench_0' order by id limit $1", [CONNECTIONS])).rows;
   const free = own.map((g) => ({ id: g.id, base: g.latest_version_id }));
   let k = 0;
-  const save = await cannon({
+  const save = await measure({
     url: base,
     headers,
     requests: [
