@@ -118,6 +118,45 @@ describe("editor in chromium", () => {
     expect(errors).toEqual([]);
   });
 
+  it("writes a song form: two sections, one repeated, shown over their bars and kept in the draft over a reload", async () => {
+    const { page, errors } = await freshEditor(browser);
+    for (let i = 0; i < 3; i++) await page.getByRole("button", { name: "Add bar at end" }).click();
+    const form = page.getByRole("region", { name: "Song form" });
+    await form.getByRole("button", { name: "Make the groove one section" }).click();
+    await page.getByRole("button", { name: /^Bar 3:/ }).click();
+    await form.getByRole("button", { name: "New section from bar 3" }).click();
+    await form.getByLabel("Name of section 1").fill("Verse");
+    await form.getByLabel("Name of section 1").press("Enter");
+    await form.getByLabel("Name of section 2").fill("Chorus");
+    await form.getByLabel("Name of section 2").press("Enter");
+    await form.getByLabel("Times section Chorus plays").fill("3");
+    await form.getByLabel("Times section Chorus plays").press("Enter");
+    const strip = page.getByRole("group", { name: "Song form" });
+    const band = strip.getByRole("button", { name: /^Section Chorus, bars 3–4, played 3 times/ });
+    expect(await band.textContent()).toBe("Chorus×3");
+    // The band starts where bar 3 starts and ends where bar 4 ends.
+    const b = (await band.boundingBox())!;
+    const bar3 = (await page.locator(".tx-barhead").nth(2).boundingBox())!;
+    const bar4 = (await page.locator(".tx-barhead").nth(3).boundingBox())!;
+    expect(Math.abs(b.x - bar3.x)).toBeLessThanOrEqual(2);
+    expect(Math.abs(b.x + b.width - (bar4.x + bar4.width))).toBeLessThanOrEqual(2);
+    expect(await form.locator(".tx-section-summary").textContent()).toContain("plays 8 bars in all");
+
+    await page.waitForTimeout(600); // drafts are written a moment after the last change
+    await page.reload();
+    await ready(page);
+    await page.getByText("Restored your unsaved changes").waitFor();
+    const draft = await page.evaluate(() => JSON.parse(localStorage.getItem("tactus:draft:scratch") ?? "null"));
+    expect(draft.doc.bars).toBe(4);
+    expect(draft.doc.sections).toEqual([
+      { name: "Verse", startBar: 0, bars: 2, repeats: 1 },
+      { name: "Chorus", startBar: 2, bars: 2, repeats: 3 },
+    ]);
+    expect(await strip.getByRole("button").allTextContents()).toEqual(["Verse", "Chorus×3"]);
+    await page.close();
+    expect(errors).toEqual([]);
+  });
+
   it("opens a saved groove's latest version for editing, and answers 404 for an unknown one", async () => {
     // A public demo groove seeded by `npm test`; a signed-out visitor may try changes but not save them.
     const demo = DEMO_GROOVES.find((g) => g.visibility === "public")!;
