@@ -35,6 +35,7 @@ export const SHORTCUTS: ShortcutGroup[] = [
       { keys: ["Shift+→", "Shift+←"], what: "Keys: make the note at the cursor one step longer or shorter" },
       { keys: ["Shift+click"], what: "Next dynamic for the clicked hit" },
       { keys: ["drag"], what: "Paint a run of hits (starting on a hit erases), or stretch a keys note" },
+      { keys: ["right-click"], what: "Keys: note menu, with the note's velocity (a long touch on a touch screen)" },
     ],
   },
   {
