@@ -14,7 +14,7 @@ export interface MeasurableFont {
   readonly ascent: number;
   readonly descent: number;
   hasGlyphForCodePoint(codePoint: number): boolean;
-  layout(text: string): {
+  layout(text: string, features?: Record<string, boolean>): {
     glyphs: readonly { bbox: { minX: number; minY: number; maxX: number; maxY: number } }[];
     positions: readonly { xAdvance: number; xOffset: number; yOffset: number }[];
   };
@@ -38,6 +38,8 @@ interface ParsedFont {
   bold: boolean;
   families: string[];
 }
+
+const NO_KERNING = { kern: false };
 
 const SIZE_TO_PX: Record<string, number> = { px: 1, pt: 4 / 3, em: 16, rem: 16, "%": 0.16, "": 1 };
 
@@ -118,7 +120,8 @@ export class MeasuringContext {
     let descent = -Infinity;
     for (const run of runs) {
       const scale = sizePx / run.face.unitsPerEm;
-      const { glyphs, positions } = run.face.layout(run.text);
+      // A canvas measures without kerning (as Chromium's measureText does for these fonts).
+      const { glyphs, positions } = run.face.layout(run.text, NO_KERNING);
       glyphs.forEach((g, i) => {
         const p = positions[i]!;
         const gx = x + p.xOffset * scale;
@@ -133,6 +136,14 @@ export class MeasuringContext {
       });
     }
     if (left === Infinity) return { ...empty, width: x };
-    return { ...empty, width: x, actualBoundingBoxLeft: -left, actualBoundingBoxRight: right, actualBoundingBoxAscent: ascent, actualBoundingBoxDescent: descent };
+    // Glyph bounds come rounded out to whole pixels, as a browser's rasteriser reports them.
+    return {
+      ...empty,
+      width: x,
+      actualBoundingBoxLeft: Math.ceil(-left),
+      actualBoundingBoxRight: Math.ceil(right),
+      actualBoundingBoxAscent: Math.ceil(ascent),
+      actualBoundingBoxDescent: Math.ceil(descent),
+    };
   }
 }
