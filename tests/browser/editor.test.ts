@@ -157,6 +157,25 @@ describe("editor in chromium", () => {
     expect(errors).toEqual([]);
   });
 
+  it("sets a keys note's velocity from its menu (right-click) and draws the note lighter", async () => {
+    const { page, errors } = await freshEditor(browser);
+    await drag(page, keyCell(page, 60, 0), keyCell(page, 60, 1));
+    const note = keyCell(page, 60, 0).locator(".tx-note");
+    const loud = Number(await note.evaluate((el) => getComputedStyle(el).opacity));
+    await keyCell(page, 60, 1).click({ button: "right" });
+    const menu = page.getByRole("dialog", { name: "C4 note, bar 1, beat 1" });
+    await menu.waitFor();
+    await menu.getByLabel("Velocity number of the C4 note").fill("20");
+    await menu.getByLabel("Velocity number of the C4 note").press("Enter");
+    expect(await keyCell(page, 60, 0).getAttribute("aria-label")).toBe("Keys C4, bar 1, beat 1: note, 2 steps long, velocity 20");
+    expect(Number(await note.evaluate((el) => getComputedStyle(el).opacity))).toBeLessThan(loud);
+    await page.keyboard.press("Escape");
+    expect(await menu.count()).toBe(0);
+    expect(await page.evaluate(() => document.activeElement?.getAttribute("aria-label"))).toBe("Keys C4, bar 1, beat 1 e: note held");
+    await page.close();
+    expect(errors).toEqual([]);
+  });
+
   it("opens a saved groove's latest version for editing, and answers 404 for an unknown one", async () => {
     // A public demo groove seeded by `npm test`; a signed-out visitor may try changes but not save them.
     const demo = DEMO_GROOVES.find((g) => g.visibility === "public")!;

@@ -1,7 +1,8 @@
 /**
  * A text or number field that edits a document value in ONE undo step: typing changes only the field;
- * Enter or leaving the field commits; Escape puts the current value back. A value the core refuses is
- * reported by the store's notice, and the field shows the document's value again.
+ * Enter or leaving the field commits; Escape puts the current value back (with nothing typed, it is left to the
+ * surrounding menu). A value the core refuses is reported by the store's notice, and the field shows the
+ * document's value again.
  */
 import { useEffect, useState, type InputHTMLAttributes } from "react";
 
@@ -28,7 +29,8 @@ export function CommitInput({ value, onCommit, onKeyDown, onBlur, ...rest }: Com
         if (e.key === "Enter") {
           e.preventDefault();
           commit();
-        } else if (e.key === "Escape") {
+        } else if (e.key === "Escape" && text !== value) {
+          // The first Escape takes back the typing; with nothing typed it goes on (closing a menu).
           e.stopPropagation();
           setText(value);
         }
