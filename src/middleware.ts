@@ -2,8 +2,10 @@
 // every page and endpoint checks its own permissions through src/lib/server/roles.ts.
 import { defineMiddleware, sequence } from "astro:middleware";
 import { answerStored, conditional, freshPage, readStoreDirective, STORE_HEADER, storePage } from "./lib/server/embed-cache";
+import { installEmbedFastLane } from "./lib/server/embed-fast-lane";
 import { error } from "./lib/server/http";
 import { clearSessionCookie, readSessionToken, setSessionCookie, validateSessionToken } from "./lib/server/session";
+import { forgetGrooveStates } from "./lib/server/sharing";
 import { embedCacheKey } from "./lib/share/embed-options";
 
 const SAFE_METHODS = new Set(["GET", "HEAD", "OPTIONS"]);
@@ -56,8 +58,22 @@ const auth = defineMiddleware(async (ctx, next) => {
   return next();
 });
 
+// Stored embed pages are also answered before the adapter and Astro (see lib/server/embed-fast-lane.ts).
+installEmbedFastLane();
+
 /** Embed pages whose whole response is stored and served without rendering (see lib/server/embed-cache.ts). */
 const STORED_PAGE = /^\/embed\/(?:[vg]\/[A-Za-z0-9_-]{1,64}|compare)\/?$/;
+
+/** The Host header as a URL would normalise it (lower case, default port dropped), or null. */
+function hostOf(request: Request): string | null {
+  const host = request.headers.get("host");
+  if (!host) return null;
+  try {
+    return new URL(`http://${host}`).host;
+  } catch {
+    return null;
+  }
+}
 
 /** Who may frame a page: embeds anyone (that is their job), every other page only Tactus itself. */
 function setFrameRules(headers: Headers, embeddable: boolean): void {
@@ -85,7 +101,8 @@ function withFrameRules(response: Response, embeddable: boolean): Response {
 
 /**
  * Public surfaces (sharing): embed pages come from a store of whole responses when every groove they show is
- * still shared and unchanged (one small query, shared by concurrent requests); otherwise the page renders and,
+ * still shared and unchanged (a small query at most once a second per groove, and again after any write request:
+ * see grooveState in lib/server/sharing.ts); otherwise the page renders and,
  * when it asks to be stored, is stored. Conditional GETs get 304 (Astro does not answer If-None-Match itself).
  * Frame rules for every HTML page. Runs before the session lookup: embeds do not depend on who is signed in.
  */
@@ -94,7 +111,8 @@ const publicSurfaces = defineMiddleware(async (ctx, next) => {
   const safe = SAFE_METHODS.has(request.method);
   const embeddable = url.pathname.startsWith("/embed/");
   if (safe && request.method !== "OPTIONS" && STORED_PAGE.test(url.pathname)) {
-    const key = embedCacheKey(url);
+    // Keyed by the Host the client sent, as the fast lane sees it (Astro's ctx.url may name another host).
+    const key = embedCacheKey(url, hostOf(request) ?? url.host);
     const stored = await freshPage(key);
     if (stored) return answerStored(request, stored);
     const response = await next();
@@ -114,6 +132,8 @@ const publicSurfaces = defineMiddleware(async (ctx, next) => {
     return withFrameRules(response, true);
   }
   const response = await next();
+  // A write may have changed what public surfaces may show (visibility, deletion, a new version): they re-read it.
+  if (!safe) forgetGrooveStates();
   return withFrameRules(safe ? conditional(request, response) : response, embeddable);
 });
 

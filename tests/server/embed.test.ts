@@ -4,6 +4,7 @@
 // §13.1.2). Frame rules: X-Frame-Options (RFC 7034) and CSP Level 2 frame-ancestors.
 import { inflateSync } from "node:zlib";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { STATE_TTL_MS } from "../../src/lib/server/sharing";
 import { BASE, api, closeDb, createGroove, createUser, db, sampleDocument, sessionFor, type GrooveFixture, type TestUser } from "./helpers";
 
 /** A request without compression unless asked for (Node's fetch offers gzip by default). */
@@ -161,8 +162,10 @@ describe("embed pages", () => {
     // Change the title behind the server's back, leaving updated_at alone: the stored page is still served.
     await db().query("update grooves set title = 'Renamed quietly' where id = $1", [fixture.grooveId]);
     expect(await (await get(path)).text()).toContain("Slack water");
-    // Any real change moves updated_at (the library's update does): the page is drawn again.
+    // Any real change moves updated_at (the library's update does): the page is drawn again. Made by hand in SQL,
+    // outside the app, the change is seen once the server's state of the groove is a second old (STATE_TTL_MS).
     await db().query("update grooves set updated_at = now() where id = $1", [fixture.grooveId]);
+    await new Promise((r) => setTimeout(r, STATE_TTL_MS + 100));
     const fresh = await (await get(path)).text();
     expect(fresh).toContain("Renamed quietly");
     expect(fresh).not.toContain("Slack water");

@@ -4,9 +4,9 @@
 //    stale; a size-bounded LRU keeps memory in check).
 // 2. Whole responses of the embed pages (body, gzip body, headers, strong ETag), served by the middleware
 //    without running the page. Each stored page names the grooves it shows with their `updated_at` (and, for
-//    "latest" pages, the version shown); before answering from the store the middleware reads each groove's
-//    state fresh (single-flight, see sharing.ts), so a groove made private, deleted or saved again is never
-//    served stale by this server.
+//    "latest" pages, the version shown); before answering from the store each groove's state is checked
+//    (grooveState in sharing.ts: read at most once a second, and again after any write request), so a groove made
+//    private, deleted or saved again through Tactus is never served stale.
 import { createHash } from "node:crypto";
 import { gzipSync } from "node:zlib";
 import { renderScoreOnServer, type RenderResult, type ScoreLayout } from "../../adapters/vexflow/server";
@@ -23,6 +23,10 @@ export class Lru<V> {
     private readonly maxEntries: number,
     private readonly maxWeight = Infinity,
   ) {}
+  /** Whether `key` is present, without touching its recency. */
+  peek(key: string): boolean {
+    return this.map.has(key);
+  }
   get(key: string): V | undefined {
     const e = this.map.get(key);
     if (!e) return undefined;
@@ -220,33 +224,53 @@ export function clearEmbedCaches(): void {
 
 const gzEtag = (etag: string) => `${etag.slice(0, -1)}-gz"`;
 
-function acceptsGzip(request: Request): boolean {
-  const header = request.headers.get("accept-encoding") ?? "";
-  return /(^|,)\s*(gzip|\*)\s*(;\s*q=(?!0(\.0*)?\s*(,|$))[\d.]+)?\s*(,|$)/i.test(header);
+function acceptsGzip(acceptEncoding: string | null | undefined): boolean {
+  return /(^|,)\s*(gzip|\*)\s*(;\s*q=(?!0(\.0*)?\s*(,|$))[\d.]+)?\s*(,|$)/i.test(acceptEncoding ?? "");
+}
+
+export interface StoredAnswer {
+  status: number;
+  headers: Record<string, string>;
+  /** null for 304 and HEAD. */
+  body: Uint8Array | null;
 }
 
 /**
- * The response for a stored page: 304 when If-None-Match names it, else the body (gzip when the client
- * accepts it). HEAD gets the headers alone.
+ * What to answer from a stored page: 304 when If-None-Match names it, else the body (gzip when the client
+ * accepts it); HEAD gets the headers alone.
+ * @example storedAnswer(page, { method: "GET", acceptEncoding: "gzip", ifNoneMatch: null }).headers["content-encoding"] // "gzip"
  */
-export function answerStored(request: Request, page: StoredPage): Response {
-  const gzip = page.gzip !== null && acceptsGzip(request);
+export function storedAnswer(page: StoredPage, req: { method: string; acceptEncoding?: string | null; ifNoneMatch?: string | null }): StoredAnswer {
+  const gzip = page.gzip !== null && acceptsGzip(req.acceptEncoding);
   const etag = gzip ? gzEtag(page.etag) : page.etag;
-  const headers = new Headers(page.headers);
-  headers.set("etag", etag);
-  if (page.gzip) headers.set("vary", "Accept-Encoding");
-  if (matchesEtag(request.headers.get("if-none-match"), page.etag, gzEtag(page.etag))) {
-    const h304 = new Headers();
-    for (const name of ["cache-control", "etag", "vary", "x-robots-tag", "content-security-policy"]) {
-      const v = headers.get(name);
-      if (v) h304.set(name, v);
-    }
-    return new Response(null, { status: 304, headers: h304 });
+  const headers: Record<string, string> = {};
+  for (const [k, v] of page.headers) headers[k] = v;
+  headers.etag = etag;
+  if (page.gzip) headers.vary = "Accept-Encoding";
+  if (matchesEtag(req.ifNoneMatch ?? null, page.etag, gzEtag(page.etag))) {
+    const kept: Record<string, string> = {};
+    for (const name of ["cache-control", "etag", "vary", "x-robots-tag", "content-security-policy"]) if (headers[name]) kept[name] = headers[name]!;
+    return { status: 304, headers: kept, body: null };
   }
   const body = gzip ? page.gzip! : page.body;
-  if (gzip) headers.set("content-encoding", "gzip");
-  headers.set("content-length", String(body.byteLength));
-  return new Response(request.method === "HEAD" ? null : (body as Uint8Array<ArrayBuffer>), { status: page.status, headers });
+  if (gzip) headers["content-encoding"] = "gzip";
+  headers["content-length"] = String(body.byteLength);
+  return { status: page.status, headers, body: req.method === "HEAD" ? null : body };
+}
+
+/** The web Response for a stored page (see storedAnswer). */
+export function answerStored(request: Request, page: StoredPage): Response {
+  const a = storedAnswer(page, {
+    method: request.method,
+    acceptEncoding: request.headers.get("accept-encoding"),
+    ifNoneMatch: request.headers.get("if-none-match"),
+  });
+  return new Response(a.body as Uint8Array<ArrayBuffer> | null, { status: a.status, headers: a.headers });
+}
+
+/** Whether a page is stored under `key` (fresh or not: freshPage decides). */
+export function hasStoredPage(key: string): boolean {
+  return pages.peek(key);
 }
 
 /** 304 for any GET response that carries an ETag the client already has (preview images, sitemap). */

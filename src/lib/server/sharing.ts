@@ -123,17 +123,29 @@ export interface GrooveState {
   latestVersionId: string | null;
 }
 
+/**
+ * How long a groove's state read from the database is trusted (ms). Changes made through Tactus itself are seen at
+ * once (every write request clears the states: see `forgetGrooveStates`); changes made outside it (SQL by hand,
+ * another server process) within this time.
+ */
+export const STATE_TTL_MS = 1000;
+
+const states = new Map<string, { value: GrooveState | null; at: number }>();
 const inFlight = new Map<string, Promise<GrooveState | null>>();
+let generation = 0;
 
 /**
- * The groove's sharing state, read fresh from the database. Concurrent calls for one groove share one query
- * (single flight): under load a cached embed costs a fraction of a query per view, and a request that starts
- * after a change committed (revoked, deleted, saved) always sees it.
+ * The groove's sharing state. Read from the database at most once per STATE_TTL_MS per groove, concurrent reads
+ * sharing one query (single flight); every write request clears what is known, so a groove revoked, deleted or
+ * saved through Tactus is seen by the very next request.
  * @example const state = await grooveState("LmpSaltRd01"); state?.shared // true
  */
 export function grooveState(grooveId: string): Promise<GrooveState | null> {
+  const known = states.get(grooveId);
+  if (known && Date.now() - known.at < STATE_TTL_MS) return Promise.resolve(known.value);
   let p = inFlight.get(grooveId);
   if (p) return p;
+  const gen = generation;
   p = getDb()
     .$client.query<{ visibility: Visibility; deleted: boolean; updated: Date; latest: string | null }>({
       name: "tactus_groove_state",
@@ -142,11 +154,26 @@ export function grooveState(grooveId: string): Promise<GrooveState | null> {
     })
     .then((r) => {
       const row = r.rows[0];
-      return row ? { shared: !row.deleted && row.visibility !== "private", updatedAt: row.updated.getTime(), latestVersionId: row.latest } : null;
+      const value = row ? { shared: !row.deleted && row.visibility !== "private", updatedAt: row.updated.getTime(), latestVersionId: row.latest } : null;
+      // A query that started before a write was made may have read the old state: answer its waiters, keep nothing.
+      if (gen === generation) {
+        if (states.size > 20_000) states.clear();
+        states.set(grooveId, { value, at: Date.now() });
+      }
+      return value;
     })
-    .finally(() => inFlight.delete(grooveId));
+    .finally(() => {
+      if (inFlight.get(grooveId) === p) inFlight.delete(grooveId);
+    });
   inFlight.set(grooveId, p);
   return p;
+}
+
+/** Forget every known groove state (after any write request: visibility, deletion, saves, restores…). */
+export function forgetGrooveStates(): void {
+  generation++;
+  states.clear();
+  inFlight.clear();
 }
 
 export interface SitemapEntry {

@@ -117,14 +117,15 @@ export function groovePagePath(grooveId: string, versionId?: string): string {
 /**
  * The key the response cache stores an embed page under: host, path and the options that change the page
  * (compare pages: the two readings too), in canonical form. Anything else in the query is ignored by the pages.
+ * `host` is the Host header the client sent (absolute links in the page depend on it).
  * @example embedCacheKey(new URL("http://h/embed/v/x?bar=2&utm=1")) // "h/embed/v/x?bar=2"
  */
-export function embedCacheKey(url: URL): string {
+export function embedCacheKey(url: URL, host: string = url.host): string {
   const path = url.pathname.replace(/\/+$/, "");
   let query = embedQuery(parseEmbedOptions(url.searchParams));
   if (path === "/embed/compare") {
     const pair = `a=${encodeURIComponent(url.searchParams.get("a") ?? "")}&b=${encodeURIComponent(url.searchParams.get("b") ?? "")}`;
     query = query ? `?${pair}&${query.slice(1)}` : `?${pair}`;
   }
-  return `${url.host}${path}${query}`;
+  return `${host}${path}${query}`;
 }
