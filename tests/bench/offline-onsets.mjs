@@ -4,12 +4,14 @@
  *
  * Bundles the audio adapter and the rhythm core (esbuild, as the app's build does with Vite) into a blank page of
  * Debian's chromium (playwright-core), renders a 16-bar groove at 180 bpm with triplet swing through Tone.Offline
- * with the real synthesized kit and keys, detects the onsets in the buffer and compares them with the core's
- * schedule (compileSchedule, computed here in Node). Prints the onset count, missing and extra onsets, the max and
- * mean timing error, and the render time.
- * Targets (issue 4): every rendered onset within 1 ms of the schedule; no missing or extra onsets.
- * The first render taps before the limiter (timing); a second render of the whole chain reports the limiter's
- * constant look-ahead delay.
+ * with the real synthesized kit and keys, detects the onsets and compares them with the core's schedule
+ * (compileSchedule, computed here in Node). Prints onset counts, missing and extra onsets, the max and mean timing
+ * error, and the render time, for three renders:
+ * 1. per instrument: every voice on its own channel (the same plan, transport and instruments), so every event of
+ *    every voice is checked, unmasked by the others. Target (issue 4): all within 1 ms, none missing or extra.
+ * 2. the full mix before the limiter: distinct onsets (events struck together are one onset); a quiet stroke
+ *    under louder ringing cymbals can be masked here, which is the mix, not the timing.
+ * 3. the whole chain through the limiter: its constant look-ahead delay.
  */
 import { mkdtempSync, rmSync } from "node:fs";
 import os from "node:os";
@@ -77,7 +79,8 @@ async function bundle() {
           const mono = mixDown(r.channels);
           let peak = 0;
           for (const v of mono) peak = Math.max(peak, Math.abs(v));
-          return { onsets: detectOnsets(mono, r.sampleRate), duration: r.duration, renderSeconds: r.renderSeconds, peak, sampleRate: r.sampleRate };
+          const stems = r.stems ? r.stems.map((voice, i) => ({ voice, onsets: detectOnsets(r.channels[i], r.sampleRate) })) : null;
+          return { onsets: stems ? [] : detectOnsets(mono, r.sampleRate), stems, duration: r.duration, renderSeconds: r.renderSeconds, peak, sampleRate: r.sampleRate };
         };`,
       resolveDir: ROOT,
       loader: "ts",
@@ -108,21 +111,38 @@ async function main() {
     page.on("console", (m) => m.type() === "error" && errors.push(m.text()));
     await page.setContent("<!doctype html><title>offline render bench</title>");
     await page.addScriptTag({ content: code });
-    const timing = await page.evaluate(([d]) => window.bench(d, { tap: "pre-limiter" }), [doc]);
-    const cmp = compareOnsets(expected, timing.onsets);
-    console.log(`groove: 16 bars, 4/4, quarter = 180, eighth swing 2/3, ${compileSchedule(doc).length} events, ${expected.length} distinct onsets`);
-    console.log(`render: ${timing.duration.toFixed(2)} s of audio at ${timing.sampleRate} Hz in ${(timing.renderSeconds * 1000).toFixed(0)} ms (peak ${timing.peak.toFixed(3)})`);
-    console.log(`onsets: detected ${timing.onsets.length}, matched ${cmp.errors.length}, missing ${cmp.missing.length}, extra ${cmp.extra.length}`);
-    console.log(`error vs schedule: max ${fmtMs(cmp.maxAbsError)}, mean ${fmtMs(cmp.meanAbsError)}`);
-    if (cmp.missing.length) console.log(`  missing at: ${cmp.missing.slice(0, 10).map((t) => t.toFixed(4)).join(", ")}`);
-    if (cmp.extra.length) console.log(`  extra at: ${cmp.extra.slice(0, 10).map((t) => t.toFixed(4)).join(", ")}`);
+    const schedule = compileSchedule(doc);
+    console.log(`groove: 16 bars, 4/4, quarter = 180, eighth swing 2/3, ${schedule.length} events, ${expected.length} distinct onsets`);
+
+    const perVoice = await page.evaluate(([d]) => window.bench(d, { tap: "stems" }), [doc]);
+    console.log(`1. per instrument: ${perVoice.duration.toFixed(2)} s at ${perVoice.sampleRate} Hz, ${perVoice.stems.length} voices on their own channels, rendered in ${(perVoice.renderSeconds * 1000).toFixed(0)} ms`);
+    let events = 0, matched = 0, missing = 0, extra = 0, maxErr = 0, sumErr = 0;
+    for (const { voice, onsets } of perVoice.stems) {
+      const want = schedule.filter((e) => (e.kind === "keys" ? "keys" : e.piece) === voice).map((e) => e.time);
+      const c = compareOnsets(want, onsets);
+      events += c.expected.length;
+      matched += c.errors.length;
+      missing += c.missing.length;
+      extra += c.extra.length;
+      maxErr = Math.max(maxErr, c.maxAbsError);
+      sumErr += c.errors.reduce((a, e) => a + Math.abs(e), 0);
+      console.log(`   ${voice.padEnd(13)} ${String(c.expected.length).padStart(3)} onsets, missing ${c.missing.length}, extra ${c.extra.length}, max ${fmtMs(c.maxAbsError)}, mean ${fmtMs(c.meanAbsError)}`);
+    }
+    console.log(`   all voices: ${events} onsets, matched ${matched}, missing ${missing}, extra ${extra}, max error ${fmtMs(maxErr)}, mean ${fmtMs(matched ? sumErr / matched : 0)}`);
+
+    const mix = await page.evaluate(([d]) => window.bench(d, { tap: "pre-limiter" }), [doc]);
+    const cmp = compareOnsets(expected, mix.onsets);
+    console.log(`2. full mix before the limiter: rendered in ${(mix.renderSeconds * 1000).toFixed(0)} ms (peak ${mix.peak.toFixed(3)}); detected ${mix.onsets.length}, matched ${cmp.errors.length}, missing ${cmp.missing.length}, extra ${cmp.extra.length}; max ${fmtMs(cmp.maxAbsError)}, mean ${fmtMs(cmp.meanAbsError)}`);
+    if (cmp.missing.length) console.log(`   missing at: ${cmp.missing.slice(0, 10).map((t) => t.toFixed(4)).join(", ")}`);
+    if (cmp.extra.length) console.log(`   extra at: ${cmp.extra.slice(0, 10).map((t) => t.toFixed(4)).join(", ")}`);
+
     const withLimiter = await page.evaluate(([d]) => window.bench(d, { tap: "output" }), [doc]);
     const lim = compareOnsets(expected, withLimiter.onsets, 0.02);
     const mean = lim.errors.length ? lim.errors.reduce((a, b) => a + b, 0) / lim.errors.length : NaN;
-    console.log(`through the limiter: peak ${withLimiter.peak.toFixed(3)} (ceiling −1 dBFS = 0.891), mean onset delay ${fmtMs(mean)} (the limiter's look-ahead), missing ${lim.missing.length}, extra ${lim.extra.length}`);
+    console.log(`3. through the limiter: peak ${withLimiter.peak.toFixed(3)} (ceiling −1 dBFS = 0.891), mean onset delay ${fmtMs(mean)} (the limiter's look-ahead)`);
     if (errors.length) console.log(`page errors: ${errors.join(" | ")}`);
-    const ok = cmp.maxAbsError <= 0.001 && cmp.missing.length === 0 && cmp.extra.length === 0 && errors.length === 0;
-    console.log(`target (all within 1 ms, none missing or extra): ${ok ? "met" : "NOT met"}`);
+    const ok = maxErr <= 0.001 && missing === 0 && extra === 0 && errors.length === 0;
+    console.log(`target (per instrument: all within 1 ms, none missing or extra): ${ok ? "met" : "NOT met"}`);
     failed = !ok;
   } finally {
     await context.close();

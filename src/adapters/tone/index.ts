@@ -8,7 +8,7 @@
  * - With `?audio-test=1` in the page address, `window.__tactusAudio` exposes an offline render of the last played
  *   document with its detected onsets (browser tests only).
  */
-import type { GrooveDocument } from "../../lib/rhythm/document";
+import { assertGroove, type GrooveDocument } from "../../lib/rhythm/document";
 import { detectOnsets, mixDown } from "../../lib/rhythm/onsets";
 import { createPlayer, type PlayerOptions } from "./player";
 import { renderOffline, type OfflineOptions } from "./offline";
@@ -69,8 +69,20 @@ export function createTransport() {
 export interface AudioTestHook {
   /** The document last given to play or update. */
   doc: GrooveDocument | null;
-  /** Render it offline (before the limiter) and detect its onsets. */
-  renderAndDetect(options?: OfflineOptions): Promise<{ onsets: number[]; duration: number; sampleRate: number; renderSeconds: number; peak: number }>;
+  /**
+   * Render a document offline (the last played one unless `doc` is given; before the limiter) and detect its
+   * onsets; `windows` asks for the RMS level of stretches of the render ([from, to] seconds).
+   */
+  renderAndDetect(options?: OfflineOptions & { doc?: unknown; windows?: [number, number][] }): Promise<{
+    onsets: number[];
+    duration: number;
+    sampleRate: number;
+    renderSeconds: number;
+    peak: number;
+    rms: number[];
+    /** With tap "stems": each voice's onsets, detected on its own channel. */
+    stems?: { voice: string; onsets: number[] }[];
+  }>;
 }
 
 function installTestHook(doc: GrooveDocument): void {
@@ -78,13 +90,22 @@ function installTestHook(doc: GrooveDocument): void {
   const w = window as unknown as { __tactusAudio?: AudioTestHook };
   const hook: AudioTestHook = (w.__tactusAudio ??= {
     doc: null,
-    async renderAndDetect(opts = {}) {
-      if (!hook.doc) throw new Error("nothing has been played yet");
-      const r = await renderOffline(hook.doc, { tap: "pre-limiter", ...opts });
+    async renderAndDetect({ doc: given, windows = [], ...opts } = {}) {
+      const doc = given === undefined ? hook.doc : assertGroove(given);
+      if (!doc) throw new Error("nothing has been played yet");
+      const r = await renderOffline(doc, { tap: "pre-limiter", ...opts });
       const mono = mixDown(r.channels);
       let peak = 0;
       for (const v of mono) peak = Math.max(peak, Math.abs(v));
-      return { onsets: detectOnsets(mono, r.sampleRate), duration: r.duration, sampleRate: r.sampleRate, renderSeconds: r.renderSeconds, peak };
+      const stems = r.stems?.map((voice, i) => ({ voice, onsets: detectOnsets(r.channels[i]!, r.sampleRate) }));
+      const rms = windows.map(([from, to]) => {
+        const a = Math.max(0, Math.round(from * r.sampleRate));
+        const b = Math.min(mono.length, Math.round(to * r.sampleRate));
+        let sum = 0;
+        for (let i = a; i < b; i++) sum += mono[i]! * mono[i]!;
+        return b > a ? Math.sqrt(sum / (b - a)) : 0;
+      });
+      return { onsets: detectOnsets(mono, r.sampleRate), duration: r.duration, sampleRate: r.sampleRate, renderSeconds: r.renderSeconds, peak, rms, ...(stems ? { stems } : {}) };
     },
   });
   hook.doc = doc;

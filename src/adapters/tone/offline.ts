@@ -3,7 +3,7 @@
  * rendered as fast as the machine can into a buffer. Used by tests and the benchmark to check timing.
  */
 import type { GrooveDocument } from "../../lib/rhythm/document";
-import { buildPlaybackPlan, type PlaybackOptions, type PlaybackPlan } from "../../lib/rhythm/playback-plan";
+import { buildPlaybackPlan, type PlaybackOptions, type PlaybackPlan, type Voice } from "../../lib/rhythm/playback-plan";
 import { OFFLINE_LOOK_AHEAD, OFFLINE_TAIL_SECONDS } from "./config";
 import { schedulePlan } from "./engine";
 import { createMasterChain } from "./master";
@@ -17,9 +17,10 @@ export interface OfflineOptions extends PlaybackOptions {
   volumeDb?: number;
   /**
    * "output" (default) renders the whole chain; "pre-limiter" taps before the limiter, whose look-ahead delays
-   * everything by a constant (for timing analysis).
+   * everything by a constant; "stems" renders each voice alone on its own channel, at full level, with no volume
+   * or limiter (timing analysis of every instrument, unmasked by the others).
    */
-  tap?: "output" | "pre-limiter";
+  tap?: "output" | "pre-limiter" | "stems";
   sampleRate?: number;
   channels?: number;
   /** Seconds of silence after the last bar (decays). */
@@ -29,6 +30,8 @@ export interface OfflineOptions extends PlaybackOptions {
 export interface OfflineRender {
   /** One Float32Array per channel. */
   channels: Float32Array[];
+  /** With tap "stems": the voice on each channel. */
+  stems?: Voice[];
   sampleRate: number;
   /** Seconds rendered. */
   duration: number;
@@ -50,22 +53,35 @@ export async function renderOffline(doc: GrooveDocument, options: OfflineOptions
   const duration = musicEnd / factor + (options.tail ?? OFFLINE_TAIL_SECONDS);
   const sampleRate = options.sampleRate ?? 44100;
   const began = performance.now();
+  const voices = [...new Set(plan.events.map((e) => e.voice))];
+  const stems = options.tap === "stems";
+  if (stems && voices.length > 32) throw new Error("too many voices for one render");
   const buffer = await T.Offline(
     (context) => {
       context.lookAhead = OFFLINE_LOOK_AHEAD;
-      const master = createMasterChain(T, { volumeDb: options.volumeDb, limiter: options.tap !== "pre-limiter" });
-      const bank = createVoiceBank(T, master.input);
-      bank.prepare(new Set(plan.events.map((e) => e.voice)));
+      let bank;
+      if (stems) {
+        const merge = new T.Merge({ channels: Math.max(1, voices.length) });
+        merge.connect(context.rawContext.destination);
+        const inputs = new Map(voices.map((v, i) => [v, new T.Gain(1).connect(merge, 0, i)]));
+        bank = createVoiceBank(T, (v) => inputs.get(v)!);
+      } else {
+        const master = createMasterChain(T, { volumeDb: options.volumeDb, limiter: options.tap !== "pre-limiter" });
+        bank = createVoiceBank(T, master.input);
+      }
+      bank.prepare(voices);
       const transport = T.getTransport();
       schedulePlan(T, transport, plan, bank, {}, { tempoFactor: factor, passes });
       transport.start(0);
     },
     duration,
-    options.channels ?? 1,
+    stems ? Math.max(1, voices.length) : (options.channels ?? 1),
     sampleRate,
   );
   const audio = buffer.get();
   if (!audio) throw new Error("the offline render produced no audio");
   const channels = Array.from({ length: audio.numberOfChannels }, (_, i) => audio.getChannelData(i));
-  return { channels, sampleRate: audio.sampleRate, duration, plan, renderSeconds: (performance.now() - began) / 1000 };
+  const result: OfflineRender = { channels, sampleRate: audio.sampleRate, duration, plan, renderSeconds: (performance.now() - began) / 1000 };
+  if (stems) result.stems = voices;
+  return result;
 }

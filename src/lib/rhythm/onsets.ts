@@ -7,13 +7,14 @@
  *    before; a clear rise (in the signal or in its first difference, which favours bright attacks over low,
  *    sustained sounds) that is the strongest nearby marks an onset. Decays never rise; a new sound does.
  * 2. Placement on the sample: what was sounding is modelled by linear prediction (LPC, autocorrelation method,
- *    Levinson–Durbin) fitted on the few milliseconds before the rise; the onset is the first sample where the
- *    prediction error jumps well above its level in that stretch (a new sound is what the past cannot predict).
+ *    Levinson–Durbin) fitted on the 11 ms before the rise; the onset is where the prediction error's power jumps
+ *    well above its level in that stretch, located by a change-point sum (Page's CUSUM). A new sound is what the
+ *    past cannot predict; a rise that the past predicts (two low tones beating) is no onset.
  * Events closer than `minGap` are one onset (a kick and a hi-hat struck together).
  */
 
 export interface OnsetOptions {
-  /** Energy rise from one analysis window to the next that counts as a new sound (power ratio; 2.5 ≈ +4 dB). */
+  /** Energy rise over the background that may be a new sound (power ratio; 2 ≈ +3 dB); step 2 confirms it. */
   rise?: number;
   /** Level below which nothing is an onset, relative to the loudest sample of the signal (0.01 = −40 dB). */
   floor?: number;
@@ -77,7 +78,7 @@ function framePowers(x: Float32Array): { full: Float64Array; bright: Float64Arra
  * @example detectOnsets(buffer.getChannelData(0), 44100) // [0, 0.5, 1.0002, …]
  */
 export function detectOnsets(signal: Float32Array, sampleRate: number, options: OnsetOptions = {}): number[] {
-  const rise = options.rise ?? 2.5;
+  const rise = options.rise ?? 2;
   let loudest = 0;
   for (const v of signal) if (Math.abs(v) > loudest) loudest = Math.abs(v);
   if (loudest === 0) return [];
@@ -120,10 +121,10 @@ export function detectOnsets(signal: Float32Array, sampleRate: number, options: 
 
 const LPC_ORDER = 16;
 const FIT_SAMPLES = 480;
-/** Prediction error this many times its background level (RMS) starts a new sound. */
-const ERROR_RISE = 6;
-/** Expected rise of e²/σ² that separates background from new sound in the change-point sum. */
-const CUSUM_DRIFT = 4;
+/** Power of the prediction error, relative to the background's, that separates a new sound from what sounded. */
+const CUSUM_DRIFT = 2.5;
+/** Samples after the change over which the error must stay that high (≈1.5 ms at 44.1 kHz). */
+const CONFIRM_SAMPLES = 64;
 
 /** LPC coefficients a[1..p] (x[n] ≈ Σ a[k]·x[n−k]) of a stretch, by Levinson–Durbin on its autocorrelation. */
 function lpc(x: Float32Array, from: number, to: number, order: number): Float64Array {
@@ -174,24 +175,29 @@ function refineOnset(x: Float32Array, at: number, floorAmp: number): number {
   let e2 = 0;
   for (let n = fitFrom + LPC_ORDER; n < s0; n++) e2 += predictErr(n) ** 2;
   const sigma = Math.sqrt(e2 / Math.max(1, s0 - fitFrom - LPC_ORDER));
-  const level = Math.max(sigma, floorAmp * 0.02 / ERROR_RISE);
-  let first = -1;
-  for (let n = s0; n < end && first < 0; n++) if (Math.abs(predictErr(n)) > level * ERROR_RISE) first = n;
-  if (first < 0) return -1; // the past predicts it: beating of what already sounds, not a new sound
-  // The change itself comes a little before the error crosses that mark (the new sound rises from nothing): Page's
-  // CUSUM of (e²/σ² − DRIFT) falls while only the background sounds and climbs once the new sound dominates; the
-  // change is just after its lowest point.
+  const level = Math.max(sigma, (floorAmp * 0.02) / 4);
+  // Page's CUSUM of (e²/σ² − DRIFT): it falls while only the background sounds and climbs once a new sound makes
+  // the error's power several times the background's; the change is just after its lowest point.
+  const ratio = new Float64Array(end - s0);
+  for (let n = s0; n < end; n++) ratio[n - s0] = (predictErr(n) / level) ** 2;
   let sum = 0;
   let lowest = 0;
-  let change = s0;
-  for (let n = s0; n <= first; n++) {
-    sum += (predictErr(n) / level) ** 2 - CUSUM_DRIFT;
+  let change = -1;
+  for (let i = 0; i < ratio.length; i++) {
+    sum += ratio[i]! - CUSUM_DRIFT;
     if (sum < lowest) {
       lowest = sum;
-      change = n + 1;
+      change = i + 1;
     }
   }
-  return Math.min(change, first);
+  if (change < 0) change = 0;
+  // A new sound keeps the error up after the change; two low tones beating are predicted and leave it at the
+  // background's level.
+  const confirm = ratio.subarray(change, Math.min(ratio.length, change + CONFIRM_SAMPLES));
+  if (confirm.length < CONFIRM_SAMPLES / 2) return -1;
+  let mean = 0;
+  for (const r of confirm) mean += r / confirm.length;
+  return mean >= CUSUM_DRIFT ? s0 + change : -1;
 }
 
 export interface OnsetComparison {
