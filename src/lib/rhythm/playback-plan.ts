@@ -190,6 +190,7 @@ export function buildPlaybackPlan(doc: GrooveDocument, options: PlaybackOptions 
   }
   addFlamGraces(events, loop);
   sortEvents(events);
+  mergeUnisons(events);
   beats.sort((a, b) => a.time - b.time);
   return { events, beats, countInSeconds, loop, end, body, secondsPerWhole: spw };
 }
@@ -242,6 +243,29 @@ function setHatRings(pass: PlanEvent[], loopSeconds: number | null): void {
     if (next === undefined && loopSeconds !== null && closers.length > 0) next = closers[0]! + loopSeconds;
     e.duration = Math.min(OPEN_HAT_RING_SECONDS, next === undefined ? OPEN_HAT_RING_SECONDS : next - e.time);
   }
+}
+
+/**
+ * One stroke per voice (and pitch) at a time: an open-hi-hat articulation on the closed row and an open hi-hat
+ * lane at the same place, or a flam's grace landing on another stroke, sound once, as the louder of the two.
+ * (A struck voice cannot start twice at the same instant.)
+ */
+function mergeUnisons(events: PlanEvent[]): void {
+  let w = 0;
+  for (let r = 0; r < events.length; r++) {
+    const e = events[r]!;
+    let merged = false;
+    for (let k = w - 1; k >= 0 && events[k]!.time > e.time - 1e-6; k--) {
+      const o = events[k]!;
+      if (o.voice !== e.voice || o.pitch !== e.pitch) continue;
+      if (e.velocity > o.velocity) events[k] = { ...e, duration: Math.max(e.duration, o.duration) };
+      else o.duration = Math.max(e.duration, o.duration);
+      merged = true;
+      break;
+    }
+    if (!merged) events[w++] = e;
+  }
+  events.length = w;
 }
 
 /** Add the grace strokes of flams, placed FLAM_GRACE_SECONDS before their main strokes. */

@@ -216,6 +216,30 @@ describe("articulations", () => {
   });
 });
 
+describe("one stroke per voice at a time", () => {
+  it("an open articulation on the closed row and an open hi-hat at the same place sound once", () => {
+    const d = groove({
+      kit: {
+        lanes: [
+          { piece: "hihat-closed", hits: [{ at: "0", articulation: "open" }] },
+          { piece: "hihat-open", hits: [{ at: "0", dynamic: "accent" }] },
+        ],
+      },
+    });
+    const opens = buildPlaybackPlan(d).events.filter((e) => e.voice === "hihat-open");
+    expect(opens).toHaveLength(1);
+    expect(opens[0]!.dynamic).toBe("accent");
+  });
+
+  it("a flam's grace that lands on another stroke of the same drum is not played twice", () => {
+    // 32nd notes at quarter = 300 are 25 ms apart: the grace of the second falls on the first.
+    const d = groove({ tempo: { bpm: 300, beatNote: "1/4" }, grid: { step: "1/32" }, kit: { lanes: [{ piece: "snare", hits: [{ at: "0" }, { at: "1/32", articulation: "flam" }] }] } });
+    const times = buildPlaybackPlan(d).events.map((e) => e.time);
+    expect(times).toHaveLength(2);
+    expect(new Set(times.map((t) => t.toFixed(6))).size).toBe(2);
+  });
+});
+
 describe("keys held across the loop seam", () => {
   const tied = groove({
     bars: 2,
