@@ -12,7 +12,7 @@ describe("groove document", () => {
   it("accepts a valid document and fills defaults", () => {
     const r = parseGroove(base());
     expect(r.ok).toBe(true);
-    if (r.ok) expect(r.doc.kit.lanes[0].hits[0].dynamic).toBe("normal");
+    if (r.ok) expect(r.doc.kit.lanes[0]?.hits[0]?.dynamic).toBe("normal");
   });
 
   it("canonicalises rationals and accepts decimal tempo exactly", () => {
