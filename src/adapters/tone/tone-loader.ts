@@ -1,9 +1,8 @@
 /**
- * Loads Tone.js on demand (the first press of play): the only place the `tone` package is imported at run time.
+ * Loads Tone.js on demand (the first press of play): with tone-lib.ts, the only place the `tone` package is
+ * imported at run time.
  */
-import type * as ToneNS from "tone";
-
-export type Tone = typeof ToneNS;
+export type Tone = typeof import("./tone-lib");
 
 let loading: Promise<Tone> | null = null;
 
@@ -15,7 +14,7 @@ export function loadTone(): Promise<Tone> {
   if (!loading) {
     // Tone prints a banner on import; keep the console for real messages.
     (globalThis as { TONE_SILENCE_LOGGING?: boolean }).TONE_SILENCE_LOGGING = true;
-    loading = import("tone").catch((e: unknown) => {
+    loading = import("./tone-lib").catch((e: unknown) => {
       loading = null;
       throw e;
     });

@@ -8,8 +8,8 @@
 import type * as ToneNS from "tone";
 import type { PlanEvent, Voice } from "../../lib/rhythm/playback-plan";
 import { velocityGain } from "./config";
+import type { Tone } from "./tone-loader";
 
-type Tone = typeof ToneNS;
 type Node = ToneNS.ToneAudioNode;
 
 interface VoiceUnit {
