@@ -18,7 +18,7 @@ export const GET = (async ({ params, url }) => {
     headers: {
       "content-type": "image/png",
       "content-length": String(image.png.byteLength),
-      // One year, but not "immutable": the image carries the title, which its owner may change.
+      // A day, then revalidated (ETag): not "immutable", since the image carries the title, which its owner may change.
       "cache-control": "public, max-age=86400, stale-while-revalidate=604800",
       etag: image.etag,
       "x-robots-tag": shared.groove.visibility === "public" ? "all" : "noindex",
