@@ -123,8 +123,11 @@ const LPC_ORDER = 16;
 const FIT_SAMPLES = 480;
 /** Power of the prediction error, relative to the background's, that separates a new sound from what sounded. */
 const CUSUM_DRIFT = 2.5;
-/** Samples after the change over which the error must stay that high (≈1.5 ms at 44.1 kHz). */
+/** Samples after the change (≈1.5 ms at 44.1 kHz) over which the error's power must stay CONFIRM_RATIO × the background's. */
 const CONFIRM_SAMPLES = 64;
+const CONFIRM_RATIO = 4;
+/** The error's power after the change over its power just before: a new sound starts, it does not swell. */
+const STEP_CONTRAST = 3;
 
 /** LPC coefficients a[1..p] (x[n] ≈ Σ a[k]·x[n−k]) of a stretch, by Levinson–Durbin on its autocorrelation. */
 function lpc(x: Float32Array, from: number, to: number, order: number): Float64Array {
@@ -197,7 +200,13 @@ function refineOnset(x: Float32Array, at: number, floorAmp: number): number {
   if (confirm.length < CONFIRM_SAMPLES / 2) return -1;
   let mean = 0;
   for (const r of confirm) mean += r / confirm.length;
-  return mean >= CUSUM_DRIFT ? s0 + change : -1;
+  // …and the change is a step, not a swell: just before it the error was still near the background's.
+  // (With no quiet stretch before the change inside the search, the rise began earlier: not a clean onset.)
+  const lead = ratio.subarray(Math.max(0, change - CONFIRM_SAMPLES), change);
+  if (lead.length < 8) return -1;
+  let before = 0;
+  for (const r of lead) before += r / lead.length;
+  return mean >= CONFIRM_RATIO && mean >= STEP_CONTRAST * before ? s0 + change : -1;
 }
 
 export interface OnsetComparison {
