@@ -86,9 +86,21 @@ export function scoreOf(versionId: string, doc: GrooveDocument): NotationScore {
   return s;
 }
 
-/** Strip what a standalone drawing needs but a page holding several must not repeat (element ids). */
+/**
+ * Strip what a page holding several drawings must not repeat (VexFlow's element ids) and what costs bytes without
+ * changing a pixel: VexFlow's class names, and fill/stroke="currentColor" below the root, which already says it
+ * (inherited, unless some group in between sets "none": then those attributes stay).
+ * @example tidyForPage('<svg fill="currentColor"><g class="vf-stave" fill="currentColor"><path/></g></svg>') // '<svg fill="currentColor"><g><path/></g></svg>'
+ */
 export function tidyForPage(svg: string): string {
-  return svg.replace(/ id="vf-[^"]*"/g, "");
+  let out = svg.replace(/ id="vf-[^"]*"/g, "").replace(/ class="vf-[^"]*"/g, "");
+  const rootEnd = out.indexOf(">") + 1;
+  const root = out.slice(0, rootEnd);
+  const inheritsColour = /\bfill="currentColor"/.test(root) && /\bstroke="currentColor"/.test(root);
+  if (inheritsColour && !/<g\b[^>]*\b(?:fill|stroke)="none"/.test(out)) {
+    out = root + out.slice(rootEnd).replace(/ (?:fill|stroke)="currentColor"/g, "");
+  }
+  return out;
 }
 
 export interface DrawOptions {

@@ -2,6 +2,9 @@
 import { describe, expect, it } from "vitest";
 import { DEMO_GROOVES } from "../../../src/lib/demo/grooves";
 import { assertGroove } from "../../../src/lib/rhythm/document";
+import { Resvg } from "@resvg/resvg-js";
+import { notationFontFiles, renderScoreOnServer } from "../../../src/adapters/vexflow/server";
+import { spellGroove } from "../../../src/lib/rhythm/notation";
 import { drawBuckets, drawVersion, renderCounter, tidyForPage } from "../../../src/lib/server/embed-cache";
 import { WIDTH_BUCKETS } from "../../../src/lib/share/embed-geometry";
 
@@ -27,8 +30,21 @@ describe("drawing cache", () => {
     expect(narrow.width).toBe(360);
   });
 
-  it("drops VexFlow's element ids, so several drawings can share a page", () => {
-    expect(tidyForPage('<g id="vf-auto12" class="vf-stave"><path id="vf-x"/></g>')).toBe('<g class="vf-stave"><path/></g>');
+  it("drops VexFlow's element ids (several drawings share a page) and redundant attributes, changing no pixel", () => {
+    expect(tidyForPage('<g id="vf-auto12" class="vf-stave"><path id="vf-x"/></g>')).toBe("<g><path/></g>");
+    const root = '<svg fill="currentColor" stroke="currentColor">';
+    expect(tidyForPage(`${root}<g fill="currentColor"><path stroke="currentColor" fill="none"/></g></svg>`)).toBe(`${root}<g><path fill="none"/></g></svg>`);
+    // A group that sets "none" keeps every colour below it explicit.
+    const kept = `${root}<g fill="none"><path fill="currentColor"/></g></svg>`;
+    expect(tidyForPage(kept)).toBe(kept);
+    // The real thing, rasterised by resvg before and after tidying: the same pixels.
+    const raw = renderScoreOnServer(spellGroove(doc), { width: 720, theme: { color: "#000" } }).svg;
+    const png = (svg: string) =>
+      new Resvg(svg, { font: { fontFiles: Object.values(notationFontFiles()), loadSystemFonts: false, defaultFontFamily: "Academico" }, background: "#fff" }).render().pixels;
+    const before = png(raw);
+    const after = png(tidyForPage(raw));
+    expect(tidyForPage(raw).length).toBeLessThan(raw.length * 0.85);
+    expect(Buffer.compare(before, after)).toBe(0);
     const svg = drawVersion("test-harbour", doc, { width: 540, keys: true }).svg;
     expect(svg).not.toMatch(/ id="/);
     expect(svg.startsWith("<svg")).toBe(true);
