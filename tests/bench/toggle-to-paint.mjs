@@ -102,11 +102,11 @@ async function measureBrowser(context, url, bars) {
   await page.evaluate((d) => localStorage.setItem("tactus:draft:scratch", JSON.stringify({ v: 1, grooveId: null, baseVersionId: null, doc: d, savedAt: Date.now() })), doc);
   await page.reload();
   await page.locator("astro-island:not([ssr]) [data-editor]").waitFor();
-  await page.locator("svg.tx-score [data-bar]").first().waitFor({ timeout: 20_000 });
+  await page.locator(".tx-notation-canvas g.tx-bar").first().waitFor({ timeout: 20_000 });
   await page
-    .waitForFunction((n) => document.querySelectorAll("svg.tx-score g.tx-bar").length === n, bars, { timeout: 20_000 })
+    .waitForFunction((n) => document.querySelectorAll(".tx-notation-canvas g.tx-bar").length === n, bars, { timeout: 20_000 })
     .catch(async (e) => {
-      const seen = await page.evaluate(() => [document.querySelectorAll("svg.tx-score g.tx-bar").length, document.querySelector(".tx-notation")?.textContent]);
+      const seen = await page.evaluate(() => [document.querySelectorAll(".tx-notation-canvas g.tx-bar").length, document.querySelector(".tx-notation")?.textContent]);
       throw new Error(`the ${bars}-bar groove did not show (${JSON.stringify(seen)}; ${errors.join(" | ")}): ${e.message}`);
     });
   // The snare row toggles across the groove: each click changes one bar (set or clear a hit on a sixteenth).
@@ -114,6 +114,7 @@ async function measureBrowser(context, url, bars) {
   const columns = bars * 16;
   await page.evaluate(() => performance.clearMarks());
   const drawn = [];
+  const drawMs = [];
   let drawnBefore = Number(await page.locator(".tx-notation-draw").first().getAttribute("data-bars-drawn"));
   for (let i = 0; i < TOGGLES; i++) {
     const col = (i * 37 + 3) % columns;
@@ -148,6 +149,7 @@ async function measureBrowser(context, url, bars) {
     });
     const total = Number(await page.locator(".tx-notation-draw").first().getAttribute("data-bars-drawn"));
     drawn.push(total - drawnBefore);
+    drawMs.push(Number(await page.locator(".tx-notation-draw").first().getAttribute("data-draw-ms")));
     drawnBefore = total;
     if (process.env.BENCH_DEBUG) say(`  column ${col}: ${drawn.at(-1)} bars redrawn`);
     await page.mouse.up();
@@ -165,7 +167,7 @@ async function measureBrowser(context, url, bars) {
     if (u !== undefined) update.push(u - t);
     if (p !== undefined) paint.push(p - t);
   });
-  return { paint: paint.sort((a, b) => a - b), update: update.sort((a, b) => a - b), errors, drawn: drawn.reduce((a, b) => a + b, 0) / Math.max(1, drawn.length) };
+  return { paint: paint.sort((a, b) => a - b), update: update.sort((a, b) => a - b), errors, drawn: drawn.reduce((a, b) => a + b, 0) / Math.max(1, drawn.length), drawMs: drawMs.sort((a, b) => a - b) };
 }
 
 function measureNode(bars, runs = 5) {
@@ -194,13 +196,13 @@ try {
   const context = await chromium.launchPersistentContext(profile, { executablePath: process.env.CHROMIUM_PATH || "/usr/bin/chromium", args: ARGS, headless: true, viewport: { width: 1280, height: 900 } });
   try {
     for (const bars of [4, 32]) {
-      const { paint, update, errors, drawn } = await measureBrowser(context, server.url, bars);
+      const { paint, update, errors, drawn, drawMs } = await measureBrowser(context, server.url, bars);
       const p95 = quantile(paint, 0.95);
       const ok = paint.length === TOGGLES && p95 <= TARGETS[bars] && errors.length === 0;
       failed ||= !ok;
       say(
         `${String(bars).padStart(2)} bars: toggle→painted median ${fmt(quantile(paint, 0.5))} ms, p95 ${fmt(p95)} ms (target ≤ ${TARGETS[bars]} ms) ` +
-          `| toggle→SVG updated median ${fmt(quantile(update, 0.5))} ms, p95 ${fmt(quantile(update, 0.95))} ms | ${drawn.toFixed(2)} bars redrawn per toggle | ${paint.length} samples ${ok ? "OK" : "MISSED"}`,
+          `| toggle→SVG updated median ${fmt(quantile(update, 0.5))} ms, p95 ${fmt(quantile(update, 0.95))} ms | notation renderer ${fmt(quantile(drawMs, 0.5))} ms median, ${drawn.toFixed(2)} bars redrawn per toggle | ${paint.length} samples ${ok ? "OK" : "MISSED"}`,
       );
       if (errors.length) say(`  page errors: ${errors.slice(0, 3).join(" | ")}`);
     }

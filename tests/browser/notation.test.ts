@@ -18,19 +18,27 @@ async function editorWith(browser: Browser, doc: GrooveDocument, options: Parame
   );
   await opened.page.reload();
   await opened.page.locator("astro-island:not([ssr]) [data-editor]").waitFor();
-  await opened.page.waitForFunction((n) => document.querySelectorAll("svg.tx-score g.tx-bar").length === n, doc.bars);
+  await opened.page.waitForFunction((n) => document.querySelectorAll(".tx-notation-canvas g.tx-bar").length === n, doc.bars);
   return opened;
 }
 
-const svgOf = (page: Page) =>
-  page.evaluate(() => {
-    const s = document.querySelector("svg.tx-score")!;
-    return { svg: s.outerHTML, width: Number(s.getAttribute("width")) };
-  });
+/**
+ * The drawing's bar and tie groups (each bar is its own small <svg> in the browser), in bar order, and the
+ * width it was drawn at. With `serverSvg`, the same groups read from the server's single SVG instead.
+ */
+const groupsOf = (page: Page, serverSvg?: string) =>
+  page.evaluate((svg) => {
+    const root = svg ? new DOMParser().parseFromString(svg, "image/svg+xml") : document;
+    const bars = [...root.querySelectorAll("g.tx-bar")].sort((a, b) => Number(a.getAttribute("data-bar")) - Number(b.getAttribute("data-bar")));
+    const ties = [...root.querySelectorAll("g.tx-ties")];
+    const canvas = document.querySelector<HTMLElement>(".tx-notation-canvas")!;
+    const xml = new XMLSerializer();
+    return { groups: [...bars, ...ties].map((g) => xml.serializeToString(g)).join("\n"), width: parseFloat(canvas.style.width) };
+  }, serverSvg ?? null);
 
 /** The SVG's numbers and the text between them (VexFlow's running ids and inline styles left out). */
 function parts(svg: string): { shape: string; numbers: number[] } {
-  const clean = svg.replace(/ id="vf-auto\d+"/g, "").replace(/ style="[^"]*"/g, "");
+  const clean = svg.replace(/ id="vf-auto\d+"/g, "").replace(/ style="[^"]*"/g, "").replace(/ xmlns="[^"]*"/g, "");
   return { shape: clean.replace(/-?\d+(?:\.\d+)?/g, "#"), numbers: (clean.match(/-?\d+(?:\.\d+)?/g) ?? []).map(Number) };
 }
 
@@ -47,9 +55,9 @@ describe("notation in chromium", () => {
 
   it("shows the editor's notation with the app's own music fonts and no console errors", async () => {
     const { page, errors } = await editorWith(browser, harbour);
-    const svg = page.locator("svg.tx-score");
-    expect(await svg.isVisible()).toBe(true);
-    expect(await svg.getAttribute("aria-label")).toBe("Notation: 4/4, 96 bpm, 2 bars, drum kit and keys");
+    const drawing = page.getByRole("img", { name: "Notation: 4/4, 96 bpm, 2 bars, drum kit and keys" });
+    expect(await drawing.isVisible()).toBe(true);
+    expect(await drawing.locator("svg.tx-score-bar").count()).toBe(2);
     expect(await page.evaluate(() => document.fonts.check("30pt Bravura"))).toBe(true);
     expect(await page.evaluate(() => document.fonts.check("10pt Academico"))).toBe(true);
     // The font files come from this server, not from elsewhere.
@@ -64,11 +72,12 @@ describe("notation in chromium", () => {
     for (const demo of DEMO_GROOVES) {
       const doc = assertGroove(demo.document);
       const { page, errors } = await editorWith(browser, doc);
-      const { svg, width } = await svgOf(page);
+      const drawn = await groupsOf(page);
+      const server = await groupsOf(page, renderScoreOnServer(spellGroove(doc), { width: drawn.width }).svg);
       await page.close();
       expect(errors).toEqual([]);
-      const browserSide = parts(svg);
-      const serverSide = parts(renderScoreOnServer(spellGroove(doc), { width }).svg);
+      const browserSide = parts(drawn.groups);
+      const serverSide = parts(server.groups);
       expect(browserSide.shape, demo.title).toBe(serverSide.shape);
       const worst = Math.max(...browserSide.numbers.map((n, i) => Math.abs(n - serverSide.numbers[i]!)));
       expect(worst, demo.title).toBeLessThan(0.05);
@@ -77,13 +86,13 @@ describe("notation in chromium", () => {
 
   it("follows an edit: a click on the grid adds the note to the notation", async () => {
     const { page, errors } = await editorWith(browser, harbour);
-    const heads = () => page.locator("svg.tx-score g.vf-notehead text").count();
+    const heads = () => page.locator(".tx-notation-canvas g.vf-notehead text").count();
     const before = await heads();
     // Add a hit on an empty step of the snare row (bar 1, beat 1 "a": column 3).
     const snare = page.locator('[data-kcell][aria-label^="Snare, bar 1, beat 1 a:"]');
     expect(await snare.getAttribute("aria-label")).toMatch(/: empty$/);
     await snare.click();
-    await page.waitForFunction((n) => document.querySelectorAll("svg.tx-score g.vf-notehead text").length > n, before);
+    await page.waitForFunction((n) => document.querySelectorAll(".tx-notation-canvas g.vf-notehead text").length > n, before);
     expect(await heads()).toBe(before + 1);
     await page.close();
     expect(errors).toEqual([]);
@@ -93,7 +102,7 @@ describe("notation in chromium", () => {
     const colour = async (scheme: "light" | "dark") => {
       const { page, errors } = await editorWith(browser, harbour, { colorScheme: scheme });
       const c = await page.evaluate(() => {
-        const svg = document.querySelector("svg.tx-score")!;
+        const svg = document.querySelector("svg.tx-score-bar")!;
         const path = svg.querySelector("g.vf-stave path")!;
         return { svg: getComputedStyle(svg).color, stroke: getComputedStyle(path).stroke, body: getComputedStyle(document.body).color };
       });

@@ -199,38 +199,47 @@ export function planScore(score: NotationScore, opts: RenderOptions, cache: BarC
   const startW = (i: number, start: boolean) => cache.startWidth(score, { systemStart: start, timeSignature: i === from, keys });
 
   // Line breaking with equal note room per bar. Systems of the previous drawing (`keep`) stay as they were
-  // while their bars still fit, so an edit does not reflow the page; the rest is filled greedily.
+  // while their bars still fit, so an edit does not reflow the page: a system that no longer fits is broken
+  // up on its own, and the systems after it stay. What is not covered is filled greedily.
   const lines: { bars: number[]; area: number }[] = [];
-  let i = from;
-  for (const line of keep?.signature === planSignature(opts, keys, from) ? keep.lines : []) {
-    if (line[0] !== i || line.length === 0 || line.length > maxBars || line[line.length - 1]! >= to) break;
+  const fits = (line: readonly number[]) => {
     let fixed = 0;
     let widest = 0;
     line.forEach((b, k) => {
       fixed += startW(b, k === 0) + pad;
       widest = Math.max(widest, notes[b - from]!);
     });
-    if (fixed + widest * line.length > avail) break;
-    lines.push({ bars: [...line], area: (avail - fixed) / line.length });
+    return { ok: fixed + widest * line.length <= avail, fixed, widest };
+  };
+  /** Greedy lines over bars [i, end). */
+  const greedy = (i: number, end: number) => {
+    while (i < end) {
+      const bars = [i];
+      let fixed = startW(i, true) + pad;
+      let widest = notes[i - from]!;
+      let j = i + 1;
+      while (j < end && bars.length < maxBars) {
+        const f = fixed + startW(j, false) + pad;
+        const w = Math.max(widest, notes[j - from]!);
+        if (f + w * (bars.length + 1) > avail) break;
+        bars.push(j);
+        fixed = f;
+        widest = w;
+        j++;
+      }
+      lines.push({ bars, area: Math.max(widest, (avail - fixed) / bars.length) });
+      i = j;
+    }
+  };
+  let i = from;
+  for (const line of keep?.signature === planSignature(opts, keys, from) ? keep.lines : []) {
+    if (line[0] !== i || line.length === 0 || line.length > maxBars || line[line.length - 1]! >= to) break;
+    const f = fits(line);
+    if (f.ok) lines.push({ bars: [...line], area: (avail - f.fixed) / line.length });
+    else greedy(i, line[line.length - 1]! + 1);
     i = line[line.length - 1]! + 1;
   }
-  while (i < to) {
-    const bars = [i];
-    let fixed = startW(i, true) + pad;
-    let widest = notes[i - from]!;
-    let j = i + 1;
-    while (j < to && bars.length < maxBars) {
-      const f = fixed + startW(j, false) + pad;
-      const w = Math.max(widest, notes[j - from]!);
-      if (f + w * (bars.length + 1) > avail) break;
-      bars.push(j);
-      fixed = f;
-      widest = w;
-      j++;
-    }
-    lines.push({ bars, area: Math.max(widest, (avail - fixed) / bars.length) });
-    i = j;
-  }
+  greedy(i, to);
   // Every system but the last is justified to the full width. The last one keeps the note room of the
   // system before it instead of stretching a lone bar; a single short system gets the room of a full one.
   const nominal = (avail - startW(from, true) - maxBars * pad) / maxBars;

@@ -75,12 +75,38 @@ export function tidySvg(root: Element): void {
   }
 }
 
-/** Draw a bar into a fresh `g.tx-bar` (system coordinates). */
-export function drawBarGroup(doc: Document, score: NotationScore, planned: PlannedBar, plan: Plan, cache: BarCache): { group: SVGGElement; drawn: DrawnBar } {
-  const host = doc.createElement("div");
-  const ctx = new SVGContext(host);
+/**
+ * VexFlow's SVG context with a cheaper save/restore: its state and attributes hold only strings and
+ * numbers, so shallow copies do what its structured clones do, at a fraction of the cost (every element
+ * drawn saves and restores once).
+ */
+class InkContext extends SVGContext {
+  override save(): this {
+    this.stateStack.push({ state: { ...this.state }, attributes: { ...this.attributes } });
+    return this;
+  }
+
+  override restore(): this {
+    const saved = this.stateStack.pop();
+    if (saved) {
+      this.state = saved.state;
+      this.attributes = saved.attributes;
+    }
+    return this;
+  }
+}
+
+/** A drawing context on a detached element, drawing in currentColor. */
+function inkContext(doc: Document): InkContext {
+  const ctx = new InkContext(doc.createElement("div"));
   ctx.setFillStyle("currentColor");
   ctx.setStrokeStyle("currentColor");
+  return ctx;
+}
+
+/** Draw a bar into a fresh `g.tx-bar` (system coordinates). */
+export function drawBarGroup(doc: Document, score: NotationScore, planned: PlannedBar, plan: Plan, cache: BarCache): { group: SVGGElement; drawn: DrawnBar } {
+  const ctx = inkContext(doc);
   const build = cache.build(score, score.bars[planned.index]!, planned.flags);
   const drawn = build.draw(ctx, planned.x, planned.width, plan.systems[planned.system]!.geometry);
   const group = doc.createElementNS(SVG_NS, "g") as SVGGElement;
@@ -94,10 +120,7 @@ export function drawBarGroup(doc: Document, score: NotationScore, planned: Plann
 
 /** The ties crossing bar lines in one system, and half ties at its edges. */
 export function drawSystemTies(doc: Document, bars: readonly DrawnBar[]): SVGGElement {
-  const host = doc.createElement("div");
-  const ctx = new SVGContext(host);
-  ctx.setFillStyle("currentColor");
-  ctx.setStrokeStyle("currentColor");
+  const ctx = inkContext(doc);
   const match = (a: TieAnchor, b: TieAnchor) => a.midi === b.midi && a.staff === b.staff;
   bars.forEach((bar, k) => {
     const next = bars[k + 1];
@@ -160,15 +183,10 @@ function evalRational(r: string): number {
   return slash < 0 ? Number(r) : Number(r.slice(0, slash)) / Number(r.slice(slash + 1));
 }
 
-/** Create the root <svg> for a plan. */
-export function createRoot(doc: Document, plan: Plan, label: string, theme?: RenderOptions["theme"]): SVGSVGElement {
+/** An <svg> carrying what VexFlow's own root element would (its groups only write attributes that differ). */
+export function createInkSvg(doc: Document, theme?: RenderOptions["theme"]): SVGSVGElement {
   const svg = doc.createElementNS(SVG_NS, "svg") as SVGSVGElement;
   svg.setAttribute("xmlns", SVG_NS);
-  svg.setAttribute("class", "tx-score");
-  sizeRoot(svg, plan);
-  svg.setAttribute("role", "img");
-  svg.setAttribute("aria-label", label);
-  // What VexFlow's own root element would carry; its groups only write attributes that differ from it.
   svg.setAttribute("fill", "currentColor");
   svg.setAttribute("stroke", "currentColor");
   svg.setAttribute("stroke-width", "1");
@@ -177,6 +195,16 @@ export function createRoot(doc: Document, plan: Plan, label: string, theme?: Ren
   svg.setAttribute("font-weight", "normal");
   svg.setAttribute("font-style", "normal");
   if (theme?.color) svg.setAttribute("color", theme.color);
+  return svg;
+}
+
+/** Create the root <svg> for a plan. */
+export function createRoot(doc: Document, plan: Plan, label: string, theme?: RenderOptions["theme"]): SVGSVGElement {
+  const svg = createInkSvg(doc, theme);
+  svg.setAttribute("class", "tx-score");
+  sizeRoot(svg, plan);
+  svg.setAttribute("role", "img");
+  svg.setAttribute("aria-label", label);
   if (theme?.background) svg.setAttribute("style", `background:${theme.background}`);
   return svg;
 }

@@ -103,6 +103,7 @@ export function NotationView({ doc, score: given, playhead = null, showKeys = tr
       performance.mark?.("tactus:notation-updated");
       // Bars drawn so far (for the benchmark: how many bars one edit redraws).
       el.dataset.barsDrawn = String(Number(el.dataset.barsDrawn ?? 0) + renderer.current.lastStats.barsDrawn);
+      el.dataset.drawMs = renderer.current.lastStats.ms.toFixed(2);
       requestAnimationFrame(() => performance.mark?.("tactus:painted"));
       setDrawError(null);
       layoutCallback.current?.(layout);
