@@ -7,7 +7,7 @@
  *    before; a clear rise (in the signal or in its first difference, which favours bright attacks over low,
  *    sustained sounds) that is the strongest nearby marks an onset. Decays never rise; a new sound does.
  * 2. Placement on the sample: what was sounding is modelled by linear prediction (LPC, autocorrelation method,
- *    Levinson–Durbin) fitted on the 11 ms before the rise; the onset is where the prediction error's power jumps
+ *    Levinson–Durbin) fitted on the 23 ms before the rise; the onset is where the prediction error's power jumps
  *    well above its level in that stretch, located by a change-point sum (Page's CUSUM). A new sound is what the
  *    past cannot predict; a rise that the past predicts (two low tones beating) is no onset.
  * Events closer than `minGap` are one onset (a kick and a hi-hat struck together).
@@ -120,7 +120,7 @@ export function detectOnsets(signal: Float32Array, sampleRate: number, options: 
 }
 
 const LPC_ORDER = 16;
-const FIT_SAMPLES = 480;
+const FIT_SAMPLES = 1024;
 /** Power of the prediction error, relative to the background's, that separates a new sound from what sounded. */
 const CUSUM_DRIFT = 2.5;
 /** Samples after the change (≈1.5 ms at 44.1 kHz) over which the error's power must stay CONFIRM_RATIO × the background's. */

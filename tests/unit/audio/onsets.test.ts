@@ -92,6 +92,40 @@ describe("detectOnsets", () => {
     expect(Math.abs(onsets[0]! - 0.1)).toBeLessThan(0.0002);
   });
 
+  it("does not mistake a kick ringing into a floor tom for a third sound", () => {
+    // Two pitch-swept low drums 120 ms apart (a tom from 483 Hz down to 105 Hz, a kick from 3 kHz down to 48 Hz):
+    // as they ring together their sum swells and fades, which is no new stroke.
+    const x = new Float32Array(SR);
+    const drum = (at: number, hz: number, octaves: number, sweep: number, ring: number, amp: number) => {
+      const s = Math.round(at * SR);
+      let phase = 0;
+      for (let n = s; n < x.length; n++) {
+        const t = (n - s) / SR;
+        phase += (2 * Math.PI * hz * (1 + (2 ** octaves - 1) * Math.exp(-t / sweep))) / SR;
+        x[n]! += amp * Math.min(1, t / 0.0005) * Math.exp(-t / ring) * Math.sin(phase);
+      }
+    };
+    drum(0.1, 105, 2.2, 0.07 / 5.3, 0.19, 0.8);
+    drum(0.22, 48, 6, 0.045 / 5.3, 0.07, 0.8);
+    const cmp = compareOnsets([0.1, 0.22], detectOnsets(x, SR));
+    expect(cmp.missing).toEqual([]);
+    expect(cmp.extra).toEqual([]);
+    expect(cmp.maxAbsError).toBeLessThan(0.0002);
+  });
+
+  it("does not mistake a swelling sustained tone (tremolo) for new sounds", () => {
+    // A 330 Hz tone whose level swells and fades 6 times a second between −14 dB and 0 dB, from 0.1 s.
+    const x = new Float32Array(Math.round(1.5 * SR));
+    for (let n = Math.round(0.1 * SR); n < x.length; n++) {
+      const t = n / SR - 0.1;
+      const depth = 0.6 + 0.4 * Math.sin(2 * Math.PI * 6 * t - Math.PI / 2);
+      x[n] = 0.5 * Math.min(1, t / 0.001) * depth * Math.sin(2 * Math.PI * 330 * t);
+    }
+    const onsets = detectOnsets(x, SR);
+    expect(onsets).toHaveLength(1);
+    expect(Math.abs(onsets[0]! - 0.1)).toBeLessThan(0.0002);
+  });
+
   it("counts sounds struck together (or closer than the minimum gap) as one onset", () => {
     const bursts: Burst[] = [
       { at: 0.2, kind: "tone", amp: 0.5, decay: 0.1, hz: 200 },
