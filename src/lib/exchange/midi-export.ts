@@ -1,26 +1,29 @@
 /**
- * Standard MIDI File export (format 1) of a groove document, written by @tonejs/midi.
+ * Standard MIDI File export (format 1) of a groove document.
  *
  * Layout (Standard MIDI File 1.0, International MIDI Association; General MIDI System Level 1, MMA):
  * - division: MIDI_PPQ = 480 ticks per quarter note;
- * - track 0 (conductor): the title as track name, section markers (FF 06) where each section is first
- *   played, one tempo (FF 51, microseconds per QUARTER note) and one time signature (FF 58);
+ * - track 0 (conductor): the title as track name (FF 03), section markers (FF 06) where each section is first
+ *   played, one tempo (FF 51, microseconds per QUARTER note) and one time signature (FF 58, clicking on the
+ *   counted beat);
  * - "Drum kit" on channel 10 (status nibble 9) with General MIDI Level 1 percussion keys and velocities
  *   from the dynamics (DYNAMIC_VELOCITY); a flam adds its soft grace stroke before the main stroke, as
  *   playback does (FLAM_GRACE_SECONDS, FLAM_GRACE_VELOCITY_RATIO), but never before the previous stroke of that
  *   drum nor before the start of the file;
- * - "Keys" on channel 1 with the notes' own pitches and velocities; a note still held when its key is struck
- *   again (a long note in a repeated section) ends there, since MIDI cannot hold one key twice.
+ * - "Keys" on channel 1 (program 1, Acoustic Grand Piano) with the notes' own pitches and velocities; a note
+ *   still held when its key is struck again (a long note in a repeated section) ends there, since MIDI cannot
+ *   hold one key twice.
  * Every onset comes from `compileSchedule`, so sections, repeats, swing and notes held across a loop seam
  * sound exactly as in playback; seconds become ticks at the written tempo (rounded to the nearest tick).
+ * The bytes are written by smf-write.ts (see there why not by @tonejs/midi, which reads them back in the tests).
  */
-import { Midi } from "@tonejs/midi";
 import type { GrooveDocument, Meter, Tempo } from "../rhythm/document";
 import { KIT_PIECES } from "../rhythm/kit";
 import { naturalBeatNote } from "../rhythm/meter";
 import { FLAM_GRACE_SECONDS, FLAM_GRACE_VELOCITY_RATIO } from "../rhythm/playback-plan";
 import { q } from "../rhythm/rational";
 import { compileSchedule, type ScheduledEvent } from "../rhythm/schedule";
+import { meta, metaText, noteEvents, RANK, writeSmf, type SmfEvent } from "./smf-write";
 
 /** Ticks per quarter note in exported files. */
 export const MIDI_PPQ = 480;
@@ -80,15 +83,13 @@ export function exportMidi(doc: GrooveDocument, options: MidiExportOptions = {})
   const ticksPerSecond = (quarterBpm(doc.tempo) / 60) * MIDI_PPQ;
   const toTick = (seconds: number) => Math.max(0, Math.round(seconds * ticksPerSecond));
 
-  const midi = new Midi();
-  midi.header.name = utf8Bytes(options.title ?? "");
-  // @tonejs/midi writes floor(60,000,000 / bpm): a quarter of a microsecond of headroom makes that floor land
-  // on the rounded value whatever the float error.
   const us = tempoMicroseconds(doc.tempo);
-  midi.header.tempos = [{ ticks: 0, bpm: 60_000_000 / (us + 0.25) }];
-  midi.header.timeSignatures = [{ ticks: 0, timeSignature: [doc.meter.beatsPerBar, doc.meter.beatUnit] }];
-  midi.header.meta = sectionMarkers(doc, toTick);
-  midi.header.update();
+  const conductor: SmfEvent[] = [
+    metaText(0, 0x03, options.title ?? ""),
+    ...sectionMarkers(doc, toTick),
+    meta(0, 0x51, [(us >> 16) & 0xff, (us >> 8) & 0xff, us & 0xff]),
+    meta(0, 0x58, [doc.meter.beatsPerBar, Math.log2(doc.meter.beatUnit), metronomeClocks(doc.meter), 8]),
+  ];
 
   const kit: Pending[] = [];
   const keys: Pending[] = [];
@@ -106,23 +107,20 @@ export function exportMidi(doc: GrooveDocument, options: MidiExportOptions = {})
     lastTick.set(note, tick);
   }
 
+  const tracks: SmfEvent[][] = [conductor];
   const hasKeys = keys.length > 0;
-  if (doc.kit.lanes.length > 0 || !hasKeys) {
-    const track = midi.addTrack();
-    track.name = KIT_TRACK_NAME;
-    track.channel = KIT_CHANNEL;
-    addNotes(track, separateRepeats(kit));
-  }
+  if (doc.kit.lanes.length > 0 || !hasKeys) tracks.push([metaText(0, 0x03, KIT_TRACK_NAME), ...notesOf(KIT_CHANNEL, separateRepeats(kit))]);
   if (hasKeys) {
-    const track = midi.addTrack();
-    track.name = KEYS_TRACK_NAME;
-    track.channel = KEYS_CHANNEL;
-    track.instrument.number = KEYS_PROGRAM;
-    addNotes(track, separateRepeats(keys));
+    const program: SmfEvent = { tick: 0, rank: RANK.control, bytes: [0xc0 | KEYS_CHANNEL, KEYS_PROGRAM] };
+    tracks.push([metaText(0, 0x03, KEYS_TRACK_NAME), program, ...notesOf(KEYS_CHANNEL, separateRepeats(keys))]);
   }
-  const bytes = midi.toArray();
-  setMetronomeClocks(bytes, metronomeClocks(doc.meter));
-  return bytes;
+  return writeSmf(MIDI_PPQ, tracks);
+}
+
+function notesOf(channel: number, notes: readonly Pending[]): SmfEvent[] {
+  const out: SmfEvent[] = [];
+  for (const n of notes) out.push(...noteEvents(channel, n.midi, n.velocity, n.tick, n.tick + n.length));
+  return out;
 }
 
 /**
@@ -172,59 +170,14 @@ function separateRepeats(notes: Pending[]): Pending[] {
   return out.sort((a, b) => a.tick - b.tick || a.midi - b.midi);
 }
 
-function addNotes(track: ReturnType<Midi["addTrack"]>, notes: readonly Pending[]): void {
-  // Notes arrive in tick order, so @tonejs/midi's sorted insert always takes its append path.
-  const sorted = [...notes].sort((a, b) => a.tick - b.tick || a.midi - b.midi);
-  for (const n of sorted) track.addNote({ midi: n.midi, ticks: n.tick, durationTicks: n.length, velocity: n.velocity / 127 });
-}
-
 /** A marker (FF 06) with the section's name where each section is first played. */
-function sectionMarkers(doc: GrooveDocument, toTick: (s: number) => number): { type: string; text: string; ticks: number }[] {
-  if (doc.sections.length === 0) return [];
+function sectionMarkers(doc: GrooveDocument, toTick: (s: number) => number): SmfEvent[] {
   const barSeconds = (4 * q(doc.meter.beatsPerBar).div(doc.meter.beatUnit).valueOf() * 60) / quarterBpm(doc.tempo);
-  const markers: { type: string; text: string; ticks: number }[] = [];
+  const markers: SmfEvent[] = [];
   let pass = 0;
   for (const s of doc.sections) {
-    markers.push({ type: "marker", text: utf8Bytes(s.name), ticks: toTick(pass * barSeconds) });
+    markers.push(metaText(toTick(pass * barSeconds), 0x06, s.name));
     pass += s.bars * s.repeats;
   }
   return markers;
-}
-
-/**
- * Text for a meta event as UTF-8: the MIDI writer stores one byte per character, so the string handed to it
- * holds the UTF-8 bytes as characters (plain ASCII is unchanged).
- */
-function utf8Bytes(text: string): string {
-  return String.fromCharCode(...new TextEncoder().encode(text));
-}
-
-/**
- * @tonejs/midi always writes 24 MIDI clocks per metronome click (right for quarter-note beats only). This sets
- * the "cc" byte of the time signature in track 0, walking that track's events (all meta events there).
- */
-export function setMetronomeClocks(bytes: Uint8Array, clocks: number): void {
-  let p = 8 + ((bytes[4]! << 24) | (bytes[5]! << 16) | (bytes[6]! << 8) | bytes[7]!); // after MThd
-  if (String.fromCharCode(...bytes.subarray(p, p + 4)) !== "MTrk") throw new Error("no first track to patch");
-  const length = ((bytes[p + 4]! << 24) | (bytes[p + 5]! << 16) | (bytes[p + 6]! << 8) | bytes[p + 7]!) >>> 0;
-  const end = p + 8 + length;
-  p += 8;
-  const vlq = () => {
-    let v = 0;
-    for (let i = 0; i < 4; i++) {
-      const b = bytes[p++]!;
-      v = (v << 7) | (b & 0x7f);
-      if ((b & 0x80) === 0) break;
-    }
-    return v;
-  };
-  while (p < end) {
-    vlq(); // delta time
-    if (bytes[p] !== 0xff) throw new Error("unexpected non-meta event in the conductor track");
-    const type = bytes[p + 1]!;
-    p += 2;
-    const len = vlq();
-    if (type === 0x58 && len === 4) bytes[p + 2] = clocks;
-    p += len;
-  }
 }

@@ -15,9 +15,13 @@
  * - element order inside `<note>`: grace, chord, pitch/unpitched/rest, duration, tie, instrument, voice, type,
  *   dot, accidental, time-modification, stem, notehead, staff, beam, notations.
  * `<divisions>` (per quarter note) is the least common multiple that makes every duration a whole number.
+ *
+ * xmlbuilder2 writes every element. It takes several microseconds per element, so the notes of a bar are written
+ * once per distinct bar content and reused for identical bars (a song repeats its grooves): a 1,000-bar song
+ * form stays well under a second.
  */
-import { createCB as makeWriter } from "xmlbuilder2";
-import type { XMLBuilderCB } from "xmlbuilder2/lib/interfaces";
+import { create, fragment } from "xmlbuilder2";
+import type { XMLBuilder } from "xmlbuilder2/lib/interfaces";
 import type { GrooveDocument } from "../rhythm/document";
 import { KIT_PIECES, KIT_ROW_ORDER, type KitPieceId } from "../rhythm/kit";
 import { NOTE_TYPES, type KeysHead, type KitHead, type NotationBar, type NotationScore, type NoteEvent, type NoteValue, type VoiceEvent } from "../rhythm/notation/model";
@@ -93,12 +97,40 @@ function decimal(x: number): string {
 const BEAMS_OF = (type: NoteValue["type"]) => Math.max(0, NOTE_TYPES.indexOf(type) - 2); // eighth 1, 16th 2, …
 
 /**
+ * A stateful cursor over xmlbuilder2's element builder, so nested elements read as open / close pairs:
+ * `w.ele("note").ele("rest").up().up()`.
+ */
+class Writer {
+  constructor(private node: XMLBuilder) {}
+  ele(name: string, attributes: Record<string, string> = {}): this {
+    this.node = this.node.ele(name, attributes);
+    return this;
+  }
+  txt(text: string): this {
+    this.node.txt(text);
+    return this;
+  }
+  up(): this {
+    this.node = this.node.up();
+    return this;
+  }
+}
+
+/** Serialise a fragment written by `write`, indented to `depth` levels of two spaces. */
+function piece(depth: number, write: (w: Writer) => void): string {
+  const root = fragment();
+  write(new Writer(root));
+  const text = root.end({ prettyPrint: true, indent: "  " });
+  if (!text) return "";
+  const pad = "  ".repeat(depth);
+  return `${pad}${text.replace(/\n/g, `\n${pad}`)}\n`;
+}
+
+/**
  * The score as a MusicXML 4.0 partwise document.
  * @example scoreToMusicXml(spellGroove(doc)).startsWith("<?xml") // true
  */
 export function scoreToMusicXml(score: NotationScore, options: MusicXmlOptions = {}): string {
-  const chunks: string[] = [];
-  const xml = makeWriter({ data: (chunk: string) => chunks.push(chunk), prettyPrint: true, indent: "  " });
   const divisions = musicXmlDivisions(score);
   const dur = (r: string) => {
     const [n, d] = parts(r);
@@ -107,9 +139,9 @@ export function scoreToMusicXml(score: NotationScore, options: MusicXmlOptions =
   const withKit = score.hasKit || !score.hasKeys;
   const pieces = withKit ? usedPieces(score) : [];
 
-  xml.dec({ version: "1.0", encoding: "UTF-8" });
-  xml.dtd({ name: "score-partwise", pubID: "-//Recordare//DTD MusicXML 4.0 Partwise//EN", sysID: "http://www.musicxml.org/dtds/partwise.dtd" });
-  xml.ele("score-partwise", { version: "4.0" });
+  const doc = create({ version: "1.0", encoding: "UTF-8" });
+  doc.dtd({ name: "score-partwise", pubID: "-//Recordare//DTD MusicXML 4.0 Partwise//EN", sysID: "http://www.musicxml.org/dtds/partwise.dtd" });
+  const xml = new Writer(doc.ele("score-partwise", { version: "4.0" }));
   if (options.title) xml.ele("work").ele("work-title").txt(options.title).up().up();
   identification(xml, options);
   if (options.title) xml.ele("credit", { page: "1" }).ele("credit-type").txt("title").up().ele("credit-words", { justify: "center", valign: "top" }).txt(options.title).up().up();
@@ -133,17 +165,18 @@ export function scoreToMusicXml(score: NotationScore, options: MusicXmlOptions =
     xml.up();
   }
   xml.up();
+  // A marker element where the parts go, replaced by their text after serialising.
+  xml.ele("tactus-parts").up();
+  const head = doc.end({ prettyPrint: true, indent: "  " });
 
-  const ctx: Ctx = { xml, score, divisions, dur };
-  if (withKit) writePart(ctx, KIT_PART_ID, "kit", true);
-  if (score.hasKeys) writePart(ctx, KEYS_PART_ID, "keys", !withKit);
-  xml.up();
-  xml.end();
-  return chunks.join("");
+  const ctx: Ctx = { score, divisions, dur };
+  const partTexts: string[] = [];
+  if (withKit) partTexts.push(writePart(ctx, KIT_PART_ID, "kit", true));
+  if (score.hasKeys) partTexts.push(writePart(ctx, KEYS_PART_ID, "keys", !withKit));
+  return head.replace(/ *<tactus-parts\/>\n/, partTexts.join(""));
 }
 
 interface Ctx {
-  xml: XMLBuilderCB;
   score: NotationScore;
   divisions: number;
   dur: (r: string) => string;
@@ -161,7 +194,7 @@ function usedPieces(score: NotationScore): KitPieceId[] {
   return KIT_ROW_ORDER.filter((p) => used.has(p));
 }
 
-function identification(xml: XMLBuilderCB, options: MusicXmlOptions): void {
+function identification(xml: Writer, options: MusicXmlOptions): void {
   xml.ele("identification");
   const c = options.credits ?? {};
   for (const type of ["composer", "arranger", "transcriber"] as const) {
@@ -174,37 +207,73 @@ function identification(xml: XMLBuilderCB, options: MusicXmlOptions): void {
   xml.up();
 }
 
-function writePart(ctx: Ctx, id: string, kind: "kit" | "keys", tempoHere: boolean): void {
-  const { xml, score } = ctx;
+function writePart(ctx: Ctx, id: string, kind: "kit" | "keys", tempoHere: boolean): string {
+  const { score } = ctx;
   const starts = new Map(score.sections.map((s) => [s.startBar, s]));
   const ends = new Map(score.sections.map((s) => [s.startBar + s.bars - 1, s]));
-  xml.ele("part", { id });
+  const bodies = new Map<string, string>();
+  const out: string[] = [`  <part id="${id}">\n`];
   for (const bar of score.bars) {
-    xml.ele("measure", { number: String(bar.index + 1) });
+    out.push(`    <measure number="${bar.index + 1}">\n`);
     const start = starts.get(bar.index);
-    if (start && start.repeats > 1) xml.ele("barline", { location: "left" }).ele("bar-style").txt("heavy-light").up().ele("repeat", { direction: "forward" }).up().up();
-    if (bar.index === 0) attributes(ctx, kind);
-    if (start && kind === "kit") xml.ele("direction", { placement: "above" }).ele("direction-type").ele("rehearsal").txt(start.name).up().up().up();
-    if (bar.index === 0 && tempoHere) tempo(ctx);
-    if (kind === "kit") {
-      const wrote = voice(ctx, bar, bar.kit.up, "1", null, false);
-      voice(ctx, bar, bar.kit.down, "2", null, wrote);
-    } else if (bar.keys) {
-      voice(ctx, bar, bar.keys.treble, "1", "1", false);
-      voice(ctx, bar, bar.keys.bass, "5", "2", true);
-    }
     const end = ends.get(bar.index);
-    if (end && end.repeats > 1) {
-      if (kind === "kit") xml.ele("direction", { placement: "above" }).ele("direction-type").ele("words").txt(`${end.repeats}×`).up().up().up();
-      xml.ele("barline", { location: "right" }).ele("bar-style").txt("light-heavy").up().ele("repeat", { direction: "backward", times: String(end.repeats) }).up().up();
+    out.push(
+      piece(3, (w) => {
+        if (start && start.repeats > 1) w.ele("barline", { location: "left" }).ele("bar-style").txt("heavy-light").up().ele("repeat", { direction: "forward" }).up().up();
+        if (bar.index === 0) attributes(w, ctx, kind);
+        if (start && kind === "kit") w.ele("direction", { placement: "above" }).ele("direction-type").ele("rehearsal").txt(start.name).up().up().up();
+        if (bar.index === 0 && tempoHere) tempo(w, ctx);
+      }),
+    );
+    // The notes depend on the bar's events only: identical bars share one written body.
+    const key = kind === "kit" ? `${bar.length}|${voiceKey(bar.kit.up)}|${voiceKey(bar.kit.down)}` : `${bar.length}|${bar.keys ? `${voiceKey(bar.keys.treble)}|${voiceKey(bar.keys.bass)}` : ""}`;
+    let body = bodies.get(key);
+    if (body === undefined) {
+      body = piece(3, (w) => {
+        if (kind === "kit") {
+          const wrote = voice(w, ctx, bar, bar.kit.up, "1", null, false);
+          voice(w, ctx, bar, bar.kit.down, "2", null, wrote);
+        } else if (bar.keys) {
+          voice(w, ctx, bar, bar.keys.treble, "1", "1", false);
+          voice(w, ctx, bar, bar.keys.bass, "5", "2", true);
+        }
+      });
+      bodies.set(key, body);
     }
-    xml.up();
+    out.push(body);
+    if (end && end.repeats > 1) {
+      out.push(
+        piece(3, (w) => {
+          if (kind === "kit") w.ele("direction", { placement: "above" }).ele("direction-type").ele("words").txt(`${end.repeats}×`).up().up().up();
+          w.ele("barline", { location: "right" }).ele("bar-style").txt("light-heavy").up().ele("repeat", { direction: "backward", times: String(end.repeats) }).up().up();
+        }),
+      );
+    }
+    out.push("    </measure>\n");
   }
-  xml.up();
+  out.push("  </part>\n");
+  return out.join("");
 }
 
-function attributes(ctx: Ctx, kind: "kit" | "keys"): void {
-  const { xml, score } = ctx;
+/** Everything a voice's written notes depend on, as text (equal texts, equal XML). */
+function voiceKey(events: readonly VoiceEvent[]): string {
+  let k = "";
+  for (const e of events) {
+    k += `${e.kind === "note" ? "n" : e.measure ? "M" : e.hidden ? "h" : "r"}${e.at},${e.duration},${e.value.type}${e.value.dots}`;
+    if (e.tuplet) k += `t${e.tuplet.actual}:${e.tuplet.normal}:${e.tuplet.group}${e.tuplet.position[0]}`;
+    if (e.kind === "note") {
+      k += `${e.stem[0]}${e.beam ?? ""}`;
+      for (const h of e.heads) {
+        k += h.kind === "kit" ? `[${h.piece}${h.dynamic[0]}${h.articulation ?? ""}]` : `[${h.midi}${h.step}${h.alter}${h.octave}${h.accidental ?? ""}${h.tieStart ? "s" : ""}${h.tieStop ? "p" : ""}]`;
+      }
+    }
+    k += ";";
+  }
+  return k;
+}
+
+function attributes(xml: Writer, ctx: Ctx, kind: "kit" | "keys"): void {
+  const { score } = ctx;
   xml.ele("attributes");
   xml.ele("divisions").txt(String(ctx.divisions)).up();
   if (kind === "keys") xml.ele("key").ele("fifths").txt("0").up().up();
@@ -220,8 +289,8 @@ function attributes(ctx: Ctx, kind: "kit" | "keys"): void {
   xml.up();
 }
 
-function tempo(ctx: Ctx): void {
-  const { xml, score } = ctx;
+function tempo(xml: Writer, ctx: Ctx): void {
+  const { score } = ctx;
   const bpm = q(score.tempo.bpm);
   const quarter = bpm.mul(q(score.tempo.beatNote)).mul(4).valueOf();
   const beat = score.tempo.beatNoteValue;
@@ -262,9 +331,9 @@ export function swingRatio(ratio: number): [number, number] {
  * One voice of one bar. Returns whether anything was written; a voice whose events are all hidden rests is left
  * out. `backup`: move back to the start of the bar first.
  */
-function voice(ctx: Ctx, bar: NotationBar, events: readonly VoiceEvent[], number: string, staff: string | null, backup: boolean): boolean {
+function voice(xml: Writer, ctx: Ctx, bar: NotationBar, events: readonly VoiceEvent[], number: string, staff: string | null, backup: boolean): boolean {
   if (events.every((e) => e.kind === "rest" && e.hidden)) return false;
-  const { xml, dur } = ctx;
+  const { dur } = ctx;
   if (backup) xml.ele("backup").ele("duration").txt(dur(bar.length)).up().up();
   const beams = beamLevels(events);
   const tupletSize = new Map<number, number>();
@@ -283,16 +352,15 @@ function voice(ctx: Ctx, bar: NotationBar, events: readonly VoiceEvent[], number
       xml.up();
       return;
     }
-    graces(ctx, e, number, staff);
+    graces(xml, e, number, staff);
     // Beams and tuplet marks go on the first note of a chord (the others share its stem).
-    e.heads.forEach((h, k) => note(ctx, e, h, k > 0, number, staff, k === 0 ? beams[i] : undefined, k === 0 ? tuplet : null));
+    e.heads.forEach((h, k) => note(xml, ctx, e, h, k > 0, number, staff, k === 0 ? beams[i] : undefined, k === 0 ? tuplet : null));
   });
   return true;
 }
 
 /** Flams: one slashed grace note per flammed head, before the chord. */
-function graces(ctx: Ctx, e: NoteEvent, number: string, staff: string | null): void {
-  const { xml } = ctx;
+function graces(xml: Writer, e: NoteEvent, number: string, staff: string | null): void {
   let first = true;
   for (const h of e.heads) {
     if (h.kind !== "kit" || !h.display.flam) continue;
@@ -311,8 +379,8 @@ function graces(ctx: Ctx, e: NoteEvent, number: string, staff: string | null): v
   }
 }
 
-function note(ctx: Ctx, e: NoteEvent, h: KitHead | KeysHead, chord: boolean, number: string, staff: string | null, beams: readonly string[] | undefined, tuplet: "start" | "middle" | "end" | null): void {
-  const { xml, dur } = ctx;
+function note(xml: Writer, ctx: Ctx, e: NoteEvent, h: KitHead | KeysHead, chord: boolean, number: string, staff: string | null, beams: readonly string[] | undefined, tuplet: "start" | "middle" | "end" | null): void {
+  const { dur } = ctx;
   xml.ele("note");
   if (chord) xml.ele("chord").up();
   if (h.kind === "kit") {
@@ -340,16 +408,16 @@ function note(ctx: Ctx, e: NoteEvent, h: KitHead | KeysHead, chord: boolean, num
   xml.up();
 }
 
-function typeAndDots(xml: XMLBuilderCB, value: NoteValue): void {
+function typeAndDots(xml: Writer, value: NoteValue): void {
   xml.ele("type").txt(value.type).up();
   for (let i = 0; i < value.dots; i++) xml.ele("dot").up();
 }
 
-function timeModification(xml: XMLBuilderCB, t: { actual: number; normal: number }): void {
+function timeModification(xml: Writer, t: { actual: number; normal: number }): void {
   xml.ele("time-modification").ele("actual-notes").txt(String(t.actual)).up().ele("normal-notes").txt(String(t.normal)).up().up();
 }
 
-function notations(xml: XMLBuilderCB, h: KitHead | KeysHead, tuplet: "start" | "middle" | "end" | null): void {
+function notations(xml: Writer, h: KitHead | KeysHead, tuplet: "start" | "middle" | "end" | null): void {
   const tuplets = tuplet === "start" || tuplet === "end";
   const d = h.kind === "kit" ? h.display : null;
   const technical = d && (d.open || d.choke);

@@ -7,7 +7,7 @@
  * - @tonejs/midi, a general-purpose MIDI package, reading the files back (round trip against compileSchedule).
  */
 import { test as fcTest } from "@fast-check/vitest";
-import { Midi } from "@tonejs/midi";
+import { Midi } from "../../../src/lib/exchange/tonejs-midi";
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { exportMidi, KEYS_TRACK_NAME, KIT_TRACK_NAME, metronomeClocks, MIDI_PPQ, quarterBpm, tempoMicroseconds } from "../../../src/lib/exchange/midi-export";

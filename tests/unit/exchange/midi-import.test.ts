@@ -6,7 +6,8 @@
  * specification (smf-reader.ts).
  */
 import { test as fcTest } from "@fast-check/vitest";
-import { Midi } from "@tonejs/midi";
+import { Midi } from "../../../src/lib/exchange/tonejs-midi";
+import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { exportMidi } from "../../../src/lib/exchange/midi-export";
 import { IMPORT_GRIDS, importMidi, MIDI_MAX_BYTES, MidiImportError, tempoFromMicroseconds, type ImportGrid, type MidiImportOptions } from "../../../src/lib/exchange/midi-import";
@@ -253,6 +254,7 @@ describe("round trips", () => {
   fcTest.prop([grooveArb().filter(sounding)], { numRuns: 120 })("import → export → import is stable (any groove, swing and flams included)", (doc) => {
     const options: MidiImportOptions = { grid: gridOf(doc.grid.step) };
     const first = importMidi(exportMidi(doc), options).document;
+    expect(assertGroove(first), "an import is a valid, normalised groove").toEqual(first);
     const second = importMidi(exportMidi(first), options).document;
     expect(second).toEqual(first);
   });
@@ -268,6 +270,30 @@ describe("round trips", () => {
       doc.kit.lanes.some((l) => l.hits.some((h) => h.articulation === "choke" || h.articulation === "open" || (h.articulation === "flam" && h.at === "0")));
     if (!exotic) expect(verdict.verdict, JSON.stringify(verdict).slice(0, 400)).toBe("identical");
   });
+});
+
+describe("every import is a valid groove document, in the core's normal form", () => {
+  fcTest.prop([fc.array(fc.record({ kit: fc.boolean(), midi: fc.integer({ min: 0, max: 127 }), tick: fc.integer({ min: 0, max: 40_000 }), len: fc.integer({ min: 1, max: 3000 }), velocity: fc.integer({ min: 1, max: 127 }) }), { minLength: 1, maxLength: 60 }), fc.constantFrom(...IMPORT_GRIDS), fc.boolean(), fc.constantFrom<[number, number]>([4, 4], [3, 4], [6, 8], [7, 8], [5, 4], [2, 2], [12, 8], [3, 8])], { numRuns: 150 })(
+    "random notes, any grid and meter",
+    (notes, grid, triplets, meter) => {
+      const midi = new Midi();
+      midi.header.timeSignatures = [{ ticks: 0, timeSignature: meter }];
+      midi.header.tempos = [{ ticks: 0, bpm: 97 }];
+      midi.header.update();
+      const drums = midi.addTrack();
+      drums.channel = 9;
+      const keys = midi.addTrack();
+      for (const n of notes) (n.kit ? drums : keys).addNote({ midi: n.midi, ticks: n.tick, durationTicks: n.len, velocity: n.velocity / 127 });
+      let r;
+      try {
+        r = importMidi(midi.toArray(), { grid, triplets, percussionMap: { 75: "clap" } });
+      } catch (e) {
+        expect((e as MidiImportError).code).toBe("no_notes"); // only unknown percussion keys, left out
+        return;
+      }
+      expect(assertGroove(r.document)).toEqual(r.document);
+    },
+  );
 });
 
 describe("bad files are refused with a clear message", () => {
