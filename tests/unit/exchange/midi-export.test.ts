@@ -25,6 +25,7 @@ import {
   type KitPieceId,
 } from "../../../src/lib/rhythm";
 import { grooveArb } from "../rhythm/arbitraries";
+import { noteEvents, vlq as writerVlq, writeSmf } from "../../../src/lib/exchange/smf-write";
 import { hex, readSmf } from "./smf-reader";
 
 const groove = (patch: Partial<GrooveDocumentInput>): GrooveDocument => assertGroove({ ...emptyGroove(), ...patch });
@@ -277,5 +278,40 @@ describe("sizes", () => {
     expect(smf.header.format).toBe(1);
     expect(smf.header.tracks).toBe(doc.keys.notes.length > 0 ? 3 : 2);
     expect(smf.tracks).toHaveLength(smf.header.tracks);
+  });
+});
+
+describe("the SMF writer", () => {
+  it("encodes variable-length quantities as SMF 1.0's own examples", () => {
+    // Standard MIDI File 1.0, "variable-length quantities" table.
+    const examples: [number, string][] = [
+      [0x00, "00"],
+      [0x40, "40"],
+      [0x7f, "7F"],
+      [0x80, "81 00"],
+      [0x2000, "C0 00"],
+      [0x3fff, "FF 7F"],
+      [0x4000, "81 80 00"],
+      [0x100000, "C0 80 00"],
+      [0x1fffff, "FF FF 7F"],
+      [0x200000, "81 80 80 00"],
+      [0x8000000, "C0 80 80 00"],
+      [0x0fffffff, "FF FF FF 7F"],
+    ];
+    for (const [n, bytes] of examples) expect(hex(writerVlq(n)), n.toString(16)).toBe(bytes);
+    expect(() => writerVlq(0x10000000)).toThrow(RangeError);
+  });
+
+  it("releases a key before striking it again on the same tick (note-off first)", () => {
+    const [on1, off1] = noteEvents(9, 38, 90, 0, 120);
+    const [on2, off2] = noteEvents(9, 38, 90, 120, 240);
+    const smf = readSmf(writeSmf(480, [[on2!, off2!, on1!, off1!]]));
+    expect(smf.tracks[0]!.events.map((e) => [e.tick, hex(e.raw)])).toEqual([
+      [0, "99 26 5A"],
+      [120, "89 26 00"],
+      [120, "99 26 5A"],
+      [240, "89 26 00"],
+      [240, "FF 2F 00"],
+    ]);
   });
 });
