@@ -12,7 +12,7 @@ import {
   NOTE_TYPES,
   chooseAccidentals,
   kitVoice,
-  notationGrouping,
+  beatGrouping,
   noteValueOf,
   spellMidi,
   staffIndex,
@@ -146,13 +146,15 @@ describe("pitch spelling", () => {
 });
 
 describe("groupings", () => {
+  // [OU 3.6] beam by the beat in simple meters, by dotted beats in compound meters; odd meters by twos with
+  // a final three (E. Gould, "Behind Bars", 2011, from memory).
   it("groups simple meters by the beat, compound by threes, odd eighths by twos and a final three", () => {
-    expect(notationGrouping({ beatsPerBar: 4, beatUnit: 4 })).toEqual([1, 1, 1, 1]);
-    expect(notationGrouping({ beatsPerBar: 6, beatUnit: 8 })).toEqual([3, 3]);
-    expect(notationGrouping({ beatsPerBar: 12, beatUnit: 8 })).toEqual([3, 3, 3, 3]);
-    expect(notationGrouping({ beatsPerBar: 7, beatUnit: 8 })).toEqual([2, 2, 3]);
-    expect(notationGrouping({ beatsPerBar: 5, beatUnit: 8 })).toEqual([2, 3]);
-    expect(notationGrouping({ beatsPerBar: 7, beatUnit: 8, grouping: [3, 2, 2] })).toEqual([3, 2, 2]);
+    expect(beatGrouping({ beatsPerBar: 4, beatUnit: 4 })).toEqual([1, 1, 1, 1]);
+    expect(beatGrouping({ beatsPerBar: 6, beatUnit: 8 })).toEqual([3, 3]);
+    expect(beatGrouping({ beatsPerBar: 12, beatUnit: 8 })).toEqual([3, 3, 3, 3]);
+    expect(beatGrouping({ beatsPerBar: 7, beatUnit: 8 })).toEqual([2, 2, 3]);
+    expect(beatGrouping({ beatsPerBar: 5, beatUnit: 8 })).toEqual([2, 3]);
+    expect(beatGrouping({ beatsPerBar: 7, beatUnit: 8, grouping: [3, 2, 2] })).toEqual([3, 2, 2]);
   });
 });
 

@@ -3,7 +3,20 @@
  * "1 trip let" for triplets, compound meters counted in dotted beats, 7/8 as 2+2+3 counted by group).
  */
 import { describe, expect, it } from "vitest";
-import { beatLengths, describeInMeter, describePosition, emptyGroove, isCompound, naturalBeatNote, timeSignature } from "../../../src/lib/rhythm";
+import {
+  assertGroove,
+  beatGrouping,
+  beatLengths,
+  beatStarts,
+  describeInMeter,
+  describePosition,
+  emptyGroove,
+  isCompound,
+  metricalHierarchy,
+  naturalBeatNote,
+  spellGroove,
+  timeSignature,
+} from "../../../src/lib/rhythm";
 
 const m44 = { beatsPerBar: 4, beatUnit: 4 as const };
 const m68 = { beatsPerBar: 6, beatUnit: 8 as const };
@@ -16,6 +29,27 @@ describe("meter", () => {
     expect(beatLengths(m78).map((f) => f.toFraction())).toEqual(["1/4", "1/4", "3/8"]);
     expect([naturalBeatNote(m44), naturalBeatNote(m68), naturalBeatNote({ beatsPerBar: 2, beatUnit: 2 })]).toEqual(["1/4", "3/8", "1/2"]);
     expect(timeSignature(m78)).toBe("7/8 (2+2+3)");
+  });
+
+  it("counts an ungrouped 5/8 or 7/8 by the default groups, 3/8 and 4/8 in eighths (common practice)", () => {
+    const lengths = (beatsPerBar: number) => beatLengths({ beatsPerBar, beatUnit: 8 }).map((f) => f.toFraction());
+    expect(lengths(7)).toEqual(["1/4", "1/4", "3/8"]); // 2+2+3, as the notation beams it
+    expect(lengths(5)).toEqual(["1/4", "3/8"]); // 2+3
+    expect(lengths(3)).toEqual(["1/8", "1/8", "1/8"]);
+    expect(lengths(4)).toEqual(["1/8", "1/8", "1/8", "1/8"]);
+    expect(describeInMeter({ beatsPerBar: 7, beatUnit: 8 }, "5/8").text).toBe("bar 1, beat 3 and");
+  });
+
+  it("uses one grouping for counting, notation and the metrical hierarchy", () => {
+    // The same meter must not be grouped one way on the page and another way by the syncopation measures.
+    for (const meter of [{ beatsPerBar: 7, beatUnit: 8 }, { beatsPerBar: 5, beatUnit: 8 }, { beatsPerBar: 6, beatUnit: 8 }, { beatsPerBar: 9, beatUnit: 8 }]) {
+      const groups = beatGrouping(meter);
+      const doc = assertGroove({ ...emptyGroove(), meter, tempo: { bpm: 120, beatNote: naturalBeatNote(meter) }, grid: { step: "1/8" } });
+      expect(spellGroove(doc).meter.grouping, JSON.stringify(meter)).toEqual(groups);
+      const starts = groups.slice(0, -1).reduce((acc, g) => [...acc, acc[acc.length - 1]! + g], [0]);
+      expect(metricalHierarchy(meter, "1/8").levels, JSON.stringify(meter)).toContainEqual(starts);
+      expect(beatStarts(meter).map((f) => Number(f.mul(8).valueOf())), JSON.stringify(meter)).toEqual(starts);
+    }
   });
 });
 

@@ -53,6 +53,8 @@ describe("metrical weights (Longuet-Higgins & Lee 1984)", () => {
     const seven = metricalHierarchy({ beatsPerBar: 7, beatUnit: 8, grouping: [2, 2, 3] }, "1/8");
     expect(seven.weights).toEqual([0, -2, -1, -2, -1, -2, -2]);
     expect(seven.beats).toEqual([0, 2, 4]); // the felt beats are the groups
+    // Without a grouping, 7/8 takes the same default groups as the notation beams (2+2+3, see meter.ts).
+    expect(metricalHierarchy({ beatsPerBar: 7, beatUnit: 8 }, "1/8").weights).toEqual(seven.weights);
     // Eighth-note triplets: each quarter divides in three.
     expect(metricalHierarchy({ beatsPerBar: 2, beatUnit: 4 }, "1/12").weights).toEqual(weightsFromDivisions([2, 3]));
   });

@@ -4,5 +4,4 @@ export { spellGroove, spellBars } from "./spell";
 export { KIT_STAFF, kitDisplay, kitVoice, staffIndex, type KitStaffEntry, type KitSource } from "./kit-staff";
 export { spellMidi, chooseAccidentals, type Accidentals, type SpelledPitch } from "./pitch-spelling";
 export { valueLength, valueLengthString, noteValueOf, typeLength } from "./durations";
-export { notationGrouping } from "./metric";
 export { isBeamable } from "./beams";

@@ -3,29 +3,12 @@
  *
  * Engraving rules followed (The Open University, "An introduction to music theory", OpenLearn 2016,
  * sections 3.6 and 4.2; E. Gould, "Behind Bars", 2011, from memory):
- * - simple meters are grouped by the beat (4/4 → 1+1+1+1); notes and rests show each beat;
- * - compound meters by dotted beats of three units (6/8 → 3+3, 9/8 → 3+3+3, 12/8 → 3+3+3+3);
- * - odd meters with eighth (or shorter) beat units by twos with a final three (5/8 → 2+3, 7/8 → 2+2+3),
- *   unless the document gives its own grouping;
+ * - beat groups are the meter's `beatGrouping` (../meter.ts: 4/4 → 1+1+1+1, 6/8 → 3+3, 7/8 → 2+2+3, or the
+ *   document's own grouping); notes and rests show each group;
  * - the middle of the bar (beat 3 of 4/4) is kept visible whenever it is a group boundary.
  */
-import type { Meter } from "../document";
+import { beatGrouping, type MeterLike } from "../meter";
 import { isPowerOfTwo } from "./timebase";
-
-/**
- * The grouping used for a meter, in beat units.
- * @example notationGrouping({ beatsPerBar: 7, beatUnit: 8 }) // [2, 2, 3]
- * @example notationGrouping({ beatsPerBar: 4, beatUnit: 4 }) // [1, 1, 1, 1]
- */
-export function notationGrouping(meter: Pick<Meter, "beatsPerBar" | "beatUnit" | "grouping">): number[] {
-  const { beatsPerBar: n, beatUnit: u } = meter;
-  if (meter.grouping && meter.grouping.length > 0) return [...meter.grouping];
-  if (u < 8) return Array.from({ length: n }, () => 1);
-  if (n % 3 === 0) return Array.from({ length: n / 3 }, () => 3);
-  if (n % 2 === 0) return Array.from({ length: n / 2 }, () => 2);
-  if (n === 1) return [1];
-  return [...Array.from({ length: (n - 3) / 2 }, () => 2), 3];
-}
 
 /** One beat group of the bar, in ticks. */
 export interface Group {
@@ -54,10 +37,10 @@ export interface Metric {
  * The metric frame of a bar in ticks (D ticks per whole note).
  * @example makeMetric({ beatsPerBar: 6, beatUnit: 8 }, 64).groups.map((g) => g.start) // [0, 24]
  */
-export function makeMetric(meter: Pick<Meter, "beatsPerBar" | "beatUnit" | "grouping">, D: number): Metric {
+export function makeMetric(meter: MeterLike, D: number): Metric {
   const unit = D / meter.beatUnit;
   const barTicks = unit * meter.beatsPerBar;
-  const grouping = notationGrouping(meter);
+  const grouping = beatGrouping(meter);
   const groups: Group[] = [];
   let at = 0;
   for (const units of grouping) {

@@ -9,6 +9,8 @@
  * Positions inside the hierarchy are counted in PULSES: the finest unit that both the grid step and the
  * beat are whole multiples of (normally the grid step itself).
  */
+import { barLength } from "../document";
+import { beatGrouping, type MeterLike } from "../meter";
 import { Fraction, q, type RationalInput } from "../rational";
 
 /**
@@ -27,13 +29,6 @@ export function weightsFromDivisions(divisions: readonly number[]): number[] {
     for (let p = 0; p < length; p += interval) if (Number.isNaN(weights[p])) weights[p] = -(i + 1);
   });
   return weights;
-}
-
-/** The meter of a document, as far as the hierarchy needs it. */
-export interface MeterLike {
-  beatsPerBar: number;
-  beatUnit: number;
-  grouping?: readonly number[] | undefined;
 }
 
 export interface MetricalHierarchy {
@@ -70,13 +65,6 @@ function factorise(n: number): number[] {
   return out;
 }
 
-/** Beat groups in meter beats: the given grouping, threes for compound meters (6/8, 9/8, 12/8), else single beats. */
-export function defaultGrouping(meter: MeterLike): number[] {
-  if (meter.grouping && meter.grouping.length > 0) return [...meter.grouping];
-  const compound = meter.beatUnit >= 8 && meter.beatsPerBar % 3 === 0 && meter.beatsPerBar >= 6;
-  return Array.from({ length: compound ? meter.beatsPerBar / 3 : meter.beatsPerBar }, () => (compound ? 3 : 1));
-}
-
 function sameSet(a: readonly number[], b: readonly number[]): boolean {
   return a.length === b.length && a.every((x, i) => x === b[i]);
 }
@@ -95,12 +83,12 @@ function sameSet(a: readonly number[], b: readonly number[]): boolean {
  */
 export function metricalHierarchy(meter: MeterLike, step: RationalInput, beatNote?: RationalInput): MetricalHierarchy {
   const beat = new Fraction(1, meter.beatUnit);
-  const bar = beat.mul(meter.beatsPerBar);
+  const bar = barLength(meter);
   const pulse = beat.gcd(q(step));
   const pulsesPerBar = Number(bar.div(pulse).n);
   const beatPulses = Number(beat.div(pulse).n);
 
-  const groups = defaultGrouping(meter);
+  const groups = beatGrouping(meter);
   const groupStarts: number[] = [];
   let acc = 0;
   for (const g of groups) {
