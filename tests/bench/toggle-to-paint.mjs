@@ -115,6 +115,7 @@ async function measureBrowser(context, url, bars) {
   await page.evaluate(() => performance.clearMarks());
   const drawn = [];
   const drawMs = [];
+  let msBefore = Number(await page.locator(".tx-notation-draw").first().getAttribute("data-draw-ms"));
   let drawnBefore = Number(await page.locator(".tx-notation-draw").first().getAttribute("data-bars-drawn"));
   for (let i = 0; i < TOGGLES; i++) {
     const col = (i * 37 + 3) % columns;
@@ -149,7 +150,9 @@ async function measureBrowser(context, url, bars) {
     });
     const total = Number(await page.locator(".tx-notation-draw").first().getAttribute("data-bars-drawn"));
     drawn.push(total - drawnBefore);
-    drawMs.push(Number(await page.locator(".tx-notation-draw").first().getAttribute("data-draw-ms")));
+    const msTotal = Number(await page.locator(".tx-notation-draw").first().getAttribute("data-draw-ms"));
+    drawMs.push(msTotal - msBefore);
+    msBefore = msTotal;
     drawnBefore = total;
     if (process.env.BENCH_DEBUG) say(`  column ${col}: ${drawn.at(-1)} bars redrawn`);
     await page.mouse.up();

@@ -444,6 +444,7 @@ export class BarBuild {
       const tempo = new StaveTempo({ duration: DURATION[v.type], dots: v.dots, bpm }, x, MARKS_BASELINE - (g.kitTop - 20));
       tempo.setXShift(markX);
       kit.addModifier(tempo);
+      markX += 90;
     }
     let startX = 0;
     for (const s of this.staves.values()) startX = Math.max(startX, s.getNoteStartX());
@@ -470,6 +471,7 @@ export class BarBuild {
       ctx.closeGroup();
     }
     if (f.barNumber !== null) drawBarNumber(ctx, f.barNumber, x, g.kitTop - 7);
+    if (f.tempo && this.score.swing) drawSwing(ctx, this.score.swing, x + markX, MARKS_BASELINE);
     for (const v of this.voices) v.voice.draw(ctx, this.staves.get(v.staff)!);
     for (const b of this.beams) b.setContext(ctx).draw();
     for (const t of this.tuplets) t.setContext(ctx).draw();
@@ -535,6 +537,19 @@ function drawBarNumber(ctx: RenderContext, n: number, x: number, y: number): voi
   ctx.setFont("Academico", 8);
   const w = ctx.measureText(String(n)).width;
   ctx.fillText(String(n), x - w / 2, y);
+  ctx.restore();
+  ctx.closeGroup();
+}
+
+const UNIT_NAMES: Record<string, string> = { "1/4": "quarters", "1/8": "8ths", "1/16": "16ths", "1/32": "32nds" };
+
+/** The swing marking: "Swung 8ths 67%" (the long note's share of each pair). */
+function drawSwing(ctx: RenderContext, swing: NonNullable<NotationScore["swing"]>, x: number, y: number): void {
+  const unit = UNIT_NAMES[swing.unit] ?? `${swing.unit} notes`;
+  ctx.openGroup("swing");
+  ctx.save();
+  ctx.setFont("Academico", 11, "normal", "italic");
+  ctx.fillText(`Swung ${unit} ${Math.round(swing.ratio * 100)}%`, x, y);
   ctx.restore();
   ctx.closeGroup();
 }

@@ -16,7 +16,7 @@ import { createRequire } from "node:module";
 import { describe, expect, it } from "vitest";
 import { measuringCanvas, parseCssFont } from "../../../src/adapters/vexflow/text-metrics";
 import { notationFontFiles } from "../../../src/adapters/vexflow/server";
-import { spellGroove, type NoteEvent, type VoiceEvent } from "../../../src/lib/rhythm";
+import { assertGroove, spellGroove, type NoteEvent, type VoiceEvent } from "../../../src/lib/rhythm";
 import { GLYPH, every, glyphs, groove, heads, render, staffLines, stems } from "./svg";
 
 /** The rock beat of countless method books: hi-hat eighths, snare on 2 and 4, bass drum on 1 and 3. */
@@ -218,6 +218,12 @@ describe("systems, wrapping and layout", () => {
     const texts = glyphs(render(withSection)).map((g) => g.glyph);
     expect(texts).toContain("Chorus x2");
     expect(texts.some((t) => t.includes("96"))).toBe(true);
+  });
+
+  it("marks swing after the tempo (the long note's share of each pair, 2/3 = triplet swing)", () => {
+    const swung = assertGroove({ ...groove({ kit: { ride: every(1, 8, 8) } }), swing: { unit: "1/8", ratio: 2 / 3 } });
+    expect(glyphs(render(swung)).map((g) => g.glyph)).toContain("Swung 8ths 67%");
+    expect(glyphs(render(rockBeat)).some((g) => g.glyph.startsWith("Swung"))).toBe(false);
   });
 
   it("scales a phone-width drawing down instead of crushing the bars", () => {
