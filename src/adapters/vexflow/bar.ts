@@ -258,7 +258,8 @@ export class BarBuild {
         if (e.hidden) {
           note = new GhostNote({ duration, dots: e.value.dots });
         } else if (e.measure) {
-          const rest = new InkNote({ keys: [restKey(staff, role)], duration: "w", type: "r", clef, alignCenter: true });
+          // A whole rest hangs from the fourth line (common practice): D5 in treble (and on the kit staff), F3 in bass.
+          const rest = new InkNote({ keys: [staff === "bass" ? "f/3" : "d/5"], duration: "w", type: "r", clef, alignCenter: true });
           // A whole rest fills the bar in any meter (MusicXML measure rest); give it the bar's ticks.
           rest.setIntrinsicTicks(Math.round(VexFlow.RESOLUTION * this.barLength));
           note = rest;
@@ -437,6 +438,7 @@ export class BarBuild {
 
     // Section name (boxed) at the bar's left edge, the tempo mark after it, both on the marks row.
     let markX = 0;
+    let swingX = 0;
     if (f.section) markX = drawSectionLabel(ctx, f.section, x, MARKS_BASELINE) + 12;
     if (f.tempo && this.score.tempo.beatNoteValue) {
       const v = this.score.tempo.beatNoteValue;
@@ -444,7 +446,7 @@ export class BarBuild {
       const tempo = new StaveTempo({ duration: DURATION[v.type], dots: v.dots, bpm }, x, MARKS_BASELINE - (g.kitTop - 20));
       tempo.setXShift(markX);
       kit.addModifier(tempo);
-      markX += 90;
+      swingX = markX + tempoWidth(ctx, bpm) + 14;
     }
     let startX = 0;
     for (const s of this.staves.values()) startX = Math.max(startX, s.getNoteStartX());
@@ -471,7 +473,8 @@ export class BarBuild {
       ctx.closeGroup();
     }
     if (f.barNumber !== null) drawBarNumber(ctx, f.barNumber, x, g.kitTop - 7);
-    if (f.tempo && this.score.swing) drawSwing(ctx, this.score.swing, x + markX, MARKS_BASELINE);
+    // The tempo mark starts where the stave puts marks above it (after the clef and time signature).
+    if (f.tempo && this.score.swing) drawSwing(ctx, this.score.swing, kit.getModifierXShift() + x + swingX, MARKS_BASELINE);
     for (const v of this.voices) v.voice.draw(ctx, this.staves.get(v.staff)!);
     for (const b of this.beams) b.setContext(ctx).draw();
     for (const t of this.tuplets) t.setContext(ctx).draw();
@@ -543,6 +546,17 @@ function drawBarNumber(ctx: RenderContext, n: number, x: number, y: number): voi
 
 const UNIT_NAMES: Record<string, string> = { "1/4": "quarters", "1/8": "8ths", "1/16": "16ths", "1/32": "32nds" };
 
+/** Width of a tempo mark "♩ = bpm" as StaveTempo draws it (note glyph at 25pt, text at 14pt, 3 px gaps). */
+function tempoWidth(ctx: RenderContext, bpm: number): number {
+  ctx.save();
+  ctx.setFont("Bravura,Academico", 25);
+  const glyph = ctx.measureText("\uECA5").width;
+  ctx.setFont("Bravura,Academico", 14);
+  const text = ctx.measureText("=").width + ctx.measureText(String(bpm)).width;
+  ctx.restore();
+  return glyph + text + 9;
+}
+
 /** The swing marking: "Swung 8ths 67%" (the long note's share of each pair). */
 function drawSwing(ctx: RenderContext, swing: NonNullable<NotationScore["swing"]>, x: number, y: number): void {
   const unit = UNIT_NAMES[swing.unit] ?? `${swing.unit} notes`;
@@ -569,9 +583,23 @@ function drawSectionLabel(ctx: RenderContext, text: string, x: number, y: number
   return w + 2 * pad;
 }
 
-/** Draw a tie between two anchors (across a bar line or from or to a system edge). */
+/**
+ * Draw a tie between two anchors (across a bar line, or from or to a system edge): the curve VexFlow's
+ * StaveTie draws between two notes (same control points), for ends that lie in different bars.
+ */
 export function drawTie(ctx: RenderContext, from: { x: number; y: number }, to: { x: number; y: number }, direction: number): void {
-  const tie = new StaveTie({});
-  tie.setContext(ctx);
-  tie.renderTie({ direction, firstX: from.x, lastX: to.x, firstYs: [from.y], lastYs: [to.y] });
+  const short = Math.abs(to.x - from.x) < 10;
+  const cp1 = short ? 2 : 8;
+  const cp2 = short ? 8 : 12;
+  const firstY = from.y + 7 * direction;
+  const lastY = to.y + 7 * direction;
+  const cpX = (from.x + to.x) / 2;
+  ctx.openGroup("stavetie");
+  ctx.beginPath();
+  ctx.moveTo(from.x, firstY);
+  ctx.quadraticCurveTo(cpX, (firstY + lastY) / 2 + cp1 * direction, to.x, lastY);
+  ctx.quadraticCurveTo(cpX, (firstY + lastY) / 2 + cp2 * direction, from.x, firstY);
+  ctx.closePath();
+  ctx.fill();
+  ctx.closeGroup();
 }

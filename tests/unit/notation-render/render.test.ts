@@ -171,6 +171,24 @@ describe("the keys grand staff", () => {
     expect(count(g, GLYPH.sharp)).toBe(1);
   });
 
+  it("ties a held note across the bar line, or with two half ties across a system break [common practice]", () => {
+    // A G4 held from beat 4 of bar 1 into bar 2: tied across the bar line.
+    const held = groove({ bars: 2, kit: { kick: ["0", "1"] }, keys: [{ at: "3/4", duration: "1/2", pitch: 67 }] });
+    const oneSystem = render(held, { width: 1000 });
+    expect(oneSystem.layout.systems.length).toBe(1);
+    const ties = [...oneSystem.doc.querySelectorAll("g.tx-ties g.vf-stavetie path")];
+    expect(ties.length).toBe(1);
+    const xs = (ties[0]!.getAttribute("d") ?? "").match(/-?\d+(?:\.\d+)?/g)!.map(Number).filter((_, i) => i % 2 === 0);
+    const [bar1, bar2] = oneSystem.layout.bars;
+    // From bar 1's last note to bar 2's first note, over the bar line.
+    expect(Math.min(...xs)).toBeLessThan(bar1!.x1);
+    expect(Math.max(...xs)).toBeGreaterThan(bar2!.x0);
+    const twoSystems = render(held, { width: 1000, maxBarsPerSystem: 1 });
+    expect(twoSystems.layout.systems.length).toBe(2);
+    const halves = [...twoSystems.doc.querySelectorAll("g.tx-ties")].map((g) => g.querySelectorAll("g.vf-stavetie").length);
+    expect(halves).toEqual([1, 1]);
+  });
+
   it("can leave the keys out", () => {
     const kitOnly = render(doc, { showKeys: false });
     expect(kitOnly.doc.querySelectorAll("g.vf-stave").length).toBe(1);
