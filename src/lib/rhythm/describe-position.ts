@@ -1,5 +1,5 @@
 /**
- * Positions in words, the way musicians count them: "bar 2, beat 3 and".
+ * Positions and note values in words, the way musicians say them: "bar 2, beat 3 and", "a dotted eighth".
  *
  * Beats are the counted beats of meter.ts (quarters in 4/4, dotted quarters in 6/8, the groups of 7/8).
  * Inside a beat of two or four parts, common counting: "1 e and a" for sixteenths, "1 trip let" for
@@ -8,7 +8,7 @@
  */
 import { barLength, type GrooveDocument, type Meter } from "./document";
 import { beatLengths } from "./meter";
-import { Fraction, q, type RationalInput } from "./rational";
+import { Fraction, q, type Rational, type RationalInput } from "./rational";
 
 export interface PositionWords {
   /** 1-based written bar. */
@@ -55,4 +55,35 @@ export function describeInMeter(meter: Meter, at: RationalInput): PositionWords 
   const out: PositionWords = { bar: barNo, beat: beat + 1, text: `bar ${barNo}, beat ${beat + 1}${sub ? ` ${sub}` : ""}` };
   if (sub) out.sub = sub;
   return out;
+}
+
+const VALUE_NAMES: [Rational, string, string][] = [
+  ["1", "a whole note", "whole notes"],
+  ["3/4", "a dotted half", "dotted halves"],
+  ["1/2", "a half note", "half notes"],
+  ["3/8", "a dotted quarter", "dotted quarters"],
+  ["1/4", "a quarter", "quarters"],
+  ["1/6", "a quarter-note triplet", "quarter-note triplets"],
+  ["3/16", "a dotted eighth", "dotted eighths"],
+  ["1/8", "an eighth", "eighths"],
+  ["1/12", "an eighth-note triplet", "eighth-note triplets"],
+  ["1/16", "a sixteenth", "sixteenths"],
+  ["1/24", "a sixteenth-note triplet", "sixteenth-note triplets"],
+  ["1/32", "a thirty-second", "thirty-seconds"],
+  ["1/48", "a thirty-second triplet", "thirty-second triplets"],
+  ["1/64", "a sixty-fourth", "sixty-fourths"],
+];
+
+/**
+ * A note value in words: "an eighth", "a dotted quarter", "5 sixteenths".
+ * @example valueWords("3/16") // "a dotted eighth"
+ */
+export function valueWords(x: RationalInput): string {
+  const v = q(x).abs();
+  for (const [r, one] of VALUE_NAMES) if (v.equals(q(r))) return one;
+  for (const [r, , many] of VALUE_NAMES) {
+    const n = v.div(q(r));
+    if (n.d === 1n && !r.startsWith("3/")) return `${n.toFraction()} ${many}`;
+  }
+  return `${v.toFraction()} of a whole note`;
 }

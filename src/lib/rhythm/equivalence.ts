@@ -17,7 +17,7 @@
 import { barLength, playOrder, type GrooveDocument } from "./document";
 import { describePosition } from "./describe-position";
 import { fmt, Fraction, type Rational } from "./rational";
-import { ARTICULATIONS, KIT_PIECE_IDS } from "./kit";
+import { ARTICULATIONS, KIT_PIECE_INDEX } from "./kit";
 import { compileSchedule, secondsPerWholeNote, type ScheduledEvent } from "./schedule";
 
 /** Onsets and durations closer than this are equal (1 microsecond). */
@@ -59,13 +59,12 @@ const TOL = EQUIVALENCE_TOLERANCE_SECONDS;
 const MAX_MISMATCHES = 10;
 const MAX_ROTATIONS = 512;
 
-const PIECE_CODE = new Map<string, number>(KIT_PIECE_IDS.map((id, i) => [id, i]));
 const ARTICULATION_CODE = new Map<string | undefined, number>([[undefined, 0], ...ARTICULATIONS.map((a, i) => [a, i + 1] as const)]);
 
 /** Sound identity as one integer: kind, kit piece and articulation or pitch, and velocity. */
 function identity(e: ScheduledEvent): number {
   return e.kind === "kit"
-    ? ((PIECE_CODE.get(e.piece!) ?? 0) * 8 + (ARTICULATION_CODE.get(e.articulation) ?? 0)) * 128 + e.velocity
+    ? ((KIT_PIECE_INDEX.get(e.piece!) ?? 0) * 8 + (ARTICULATION_CODE.get(e.articulation) ?? 0)) * 128 + e.velocity
     : 1_000_000 + e.pitch! * 128 + e.velocity;
 }
 

@@ -26,6 +26,13 @@ export const KIT_PIECE_IDS = [
 
 export type KitPieceId = (typeof KIT_PIECE_IDS)[number];
 
+/**
+ * Index of each piece in KIT_PIECE_IDS: the one fixed order of kit pieces for sorting simultaneous events
+ * (schedule, equivalence, reports) and for compact sound codes.
+ * @example KIT_PIECE_INDEX.get("snare") // 1
+ */
+export const KIT_PIECE_INDEX: ReadonlyMap<KitPieceId, number> = new Map(KIT_PIECE_IDS.map((id, i) => [id, i]));
+
 export type Limb = "hand" | "foot";
 
 export interface KitPiece {

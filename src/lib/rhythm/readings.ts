@@ -47,6 +47,10 @@ import {
   type ReadabilityFigures,
 } from "./readability/figures";
 import { displace, rebar, rescale, type DisplaceMode } from "./transforms";
+import { valueWords } from "./describe-position";
+
+/** Kept here too for older imports; the words live in describe-position.ts. */
+export { valueWords };
 
 /** One renotation step, serialisable (JSON) so a reading can be stored and replayed. */
 export type Transform =
@@ -124,37 +128,6 @@ export function rebarTwins(meter: Meter): Meter[] {
     "6/8": [{ beatsPerBar: 3, beatUnit: 4 }],
   };
   return meter.grouping ? [] : (twins[sig] ?? []);
-}
-
-const VALUE_NAMES: [Rational, string, string][] = [
-  ["1", "a whole note", "whole notes"],
-  ["3/4", "a dotted half", "dotted halves"],
-  ["1/2", "a half note", "half notes"],
-  ["3/8", "a dotted quarter", "dotted quarters"],
-  ["1/4", "a quarter", "quarters"],
-  ["1/6", "a quarter-note triplet", "quarter-note triplets"],
-  ["3/16", "a dotted eighth", "dotted eighths"],
-  ["1/8", "an eighth", "eighths"],
-  ["1/12", "an eighth-note triplet", "eighth-note triplets"],
-  ["1/16", "a sixteenth", "sixteenths"],
-  ["1/24", "a sixteenth-note triplet", "sixteenth-note triplets"],
-  ["1/32", "a thirty-second", "thirty-seconds"],
-  ["1/48", "a thirty-second triplet", "thirty-second triplets"],
-  ["1/64", "a sixty-fourth", "sixty-fourths"],
-];
-
-/**
- * A note value in words: "an eighth", "a dotted quarter", "5 sixteenths".
- * @example valueWords("3/16") // "a dotted eighth"
- */
-export function valueWords(x: RationalInput): string {
-  const v = q(x).abs();
-  for (const [r, one] of VALUE_NAMES) if (v.equals(q(r))) return one;
-  for (const [r, , many] of VALUE_NAMES) {
-    const n = v.div(q(r));
-    if (n.d === 1n && !r.startsWith("3/")) return `${n.toFraction()} ${many}`;
-  }
-  return `${v.toFraction()} of a whole note`;
 }
 
 function factorLabel(k: Fraction): string | null {

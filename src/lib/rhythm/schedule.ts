@@ -14,7 +14,7 @@
  * - order: time, then kit before keys, then kit pieces in KIT_PIECE_IDS order or pitches low to high.
  */
 import { barLength, playOrder, type GrooveDocument, type Tempo } from "./document";
-import { DYNAMIC_VELOCITY, KIT_PIECE_IDS, type Articulation, type Dynamic, type KitPieceId } from "./kit";
+import { DYNAMIC_VELOCITY, KIT_PIECE_INDEX, type Articulation, type Dynamic, type KitPieceId } from "./kit";
 import { Fraction, q, type Rational } from "./rational";
 import { swingInBar } from "./swing";
 import { TickCodec, ticksOf } from "./ticks";
@@ -63,8 +63,6 @@ export function scheduleLength(doc: GrooveDocument): number {
   return barLength(doc.meter).mul(playOrder(doc).length).mul(secondsPerWhole(doc.tempo)).valueOf();
 }
 
-const pieceIndex = new Map<string, number>(KIT_PIECE_IDS.map((id, i) => [id, i]));
-
 interface Template {
   tick: number; // inside the bar
   kind: 0 | 1;
@@ -104,7 +102,7 @@ export function compileSchedule(doc: GrooveDocument, order: readonly number[] = 
 
   const perBar: Template[][] = Array.from({ length: doc.bars }, () => []);
   for (const lane of doc.kit.lanes) {
-    const order = pieceIndex.get(lane.piece) ?? 0;
+    const order = KIT_PIECE_INDEX.get(lane.piece) ?? 0;
     for (const h of lane.hits) {
       const t = codec.toTicks(h.at);
       const b = Math.floor(t / barTicks);

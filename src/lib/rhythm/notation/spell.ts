@@ -13,7 +13,8 @@
  *   ties show what is held). Notes are also split and tied at bar lines and wherever the beat must show.
  */
 import { type GrooveDocument, RhythmError } from "../document";
-import { ARTICULATIONS, DYNAMICS, KIT_PIECE_IDS, type Articulation, type Dynamic, type KitPieceId } from "../kit";
+import { ARTICULATIONS, DYNAMICS, KIT_PIECE_INDEX, type Articulation, type Dynamic, type KitPieceId } from "../kit";
+import { isStraight } from "../swing";
 import { beamGroups, stemFor } from "./beams";
 import { noteValueOf } from "./durations";
 import { kitDisplay, kitVoice, staffIndex } from "./kit-staff";
@@ -89,7 +90,7 @@ function prepare(doc: GrooveDocument): Prepared {
 }
 
 function kitHead(cache: Map<number, KitHead>, piece: KitPieceId, dynamic: Dynamic, articulation?: Articulation): KitHead {
-  const key = (KIT_PIECE_IDS.indexOf(piece) * 4 + DYNAMICS.indexOf(dynamic)) * 4 + (articulation ? ARTICULATIONS.indexOf(articulation) + 1 : 0);
+  const key = (KIT_PIECE_INDEX.get(piece)! * 4 + DYNAMICS.indexOf(dynamic)) * 4 + (articulation ? ARTICULATIONS.indexOf(articulation) + 1 : 0);
   let h = cache.get(key);
   if (!h) {
     h = {
@@ -118,7 +119,7 @@ export function spellGroove(doc: GrooveDocument): NotationScore {
   return {
     meter: { beatsPerBar: doc.meter.beatsPerBar, beatUnit: doc.meter.beatUnit, grouping: p.metric.groups.map((g) => g.units) },
     tempo: { bpm: doc.tempo.bpm, beatNote: doc.tempo.beatNote, beatNoteValue: noteValueOf(doc.tempo.beatNote) },
-    swing: doc.swing.ratio === 0.5 ? null : { unit: doc.swing.unit, ratio: doc.swing.ratio },
+    swing: isStraight(doc.swing) ? null : { unit: doc.swing.unit, ratio: doc.swing.ratio },
     bars: spellBars(doc, 0, doc.bars),
     sections: doc.sections.map((s) => ({ name: s.name, startBar: s.startBar, bars: s.bars, repeats: s.repeats })),
     hasKeys,

@@ -4,10 +4,12 @@
  * Spelling a long song touches hundreds of thousands of positions, too many for big-integer fractions.
  * Every position of a valid document is a multiple of its grid step, so one integer tick per
  * 1/D whole note keeps everything exact. D carries spare factors of two so that half-steps, dotted
- * values and tuplet-written positions are whole ticks too. Rationals are rebuilt only for the output.
+ * values and tuplet-written positions are whole ticks too. Rationals are rebuilt only for the output
+ * (the conversion itself is ../ticks.ts's TickCodec, with a step of 1/D).
  */
 import { RhythmError } from "../document";
-import { q, type Rational } from "../rational";
+import { Fraction, q, type Rational } from "../rational";
+import { lcm, TickCodec } from "../ticks";
 
 export interface Timebase {
   /** Ticks per whole note. */
@@ -16,17 +18,6 @@ export interface Timebase {
   ticks(r: Rational): number;
   /** Canonical rational string of a tick count. */
   rational(ticks: number): Rational;
-}
-
-export function gcd(a: number, b: number): number {
-  a = Math.abs(a);
-  b = Math.abs(b);
-  while (b) [a, b] = [b, a % b];
-  return a;
-}
-
-export function lcm(a: number, b: number): number {
-  return (a / gcd(a, b)) * b;
 }
 
 /** The odd part of a positive integer (24 → 3). */
@@ -58,47 +49,10 @@ export function makeTimebase(gridStep: Rational, beatUnit: number): Timebase {
   const spare = 2 ** (Math.ceil(Math.log2(dg + 1)) + 3);
   const D = lcm(dg, beatUnit) * spare;
   if (!Number.isSafeInteger(D * 4096 * 32)) throw new RhythmError(`grid step ${gridStep} is too fine to notate`);
-  const cache = new Map<number, Rational>();
+  const codec = new TickCodec(new Fraction(1, D), `the ${gridStep} grid`);
   return {
     D,
-    ticks(r: Rational): number {
-      // Hand-rolled parse of "n", "-n" or "n/d" (no substrings: a long song has ~100,000 positions).
-      let i = 0;
-      let sign = 1;
-      if (r.charCodeAt(0) === 45) {
-        sign = -1;
-        i = 1;
-      }
-      let n = 0;
-      let d = 0;
-      let inDen = false;
-      let digits = 0;
-      for (; i < r.length; i++) {
-        const c = r.charCodeAt(i);
-        if (c === 47 && !inDen && digits > 0) {
-          inDen = true;
-          digits = 0;
-        } else if (c >= 48 && c <= 57) {
-          if (inDen) d = d * 10 + (c - 48);
-          else n = n * 10 + (c - 48);
-          digits++;
-        } else {
-          digits = -1;
-          break;
-        }
-      }
-      if (!inDen) d = 1;
-      if (digits <= 0 || d <= 0 || D % d !== 0) throw new RhythmError(`position or duration ${r} is not on the ${gridStep} grid`);
-      return sign * n * (D / d);
-    },
-    rational(t: number): Rational {
-      let s = cache.get(t);
-      if (s === undefined) {
-        const c = gcd(t, D);
-        s = D / c === 1 ? String(t / c) : `${t / c}/${D / c}`;
-        if (cache.size < 100_000) cache.set(t, s);
-      }
-      return s;
-    },
+    ticks: (r) => codec.toTicks(r, "position or duration"),
+    rational: (t) => codec.fromTicks(t),
   };
 }

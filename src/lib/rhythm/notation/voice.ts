@@ -26,7 +26,8 @@ import { RhythmError } from "../document";
 import type { NoteValue } from "./model";
 import { tickValues, type TickValue } from "./durations";
 import { groupIndexAt, type Metric } from "./metric";
-import { gcd, lcm, oddPart, powerOfTwoBelow } from "./timebase";
+import { gcd, lcm } from "../ticks";
+import { oddPart, powerOfTwoBelow } from "./timebase";
 
 /** A sounding span of the voice: a note (payload) or a rest (null). Pieces tile the bar. */
 export interface Piece<T> {

@@ -7,11 +7,12 @@
  * the kick on the downbeat, the tempo inside the usual range, and how busy the page is (notes, rests and ties
  * of the notation spelling, events per bar).
  */
-import type { GrooveDocument, Meter, Tempo } from "../document";
+import { barLength, type GrooveDocument, type Meter, type Tempo } from "../document";
 import { KIT_PIECES, type KitPieceId } from "../kit";
 import type { NotationScore } from "../notation/model";
 import { spellGroove } from "../notation/spell";
 import { q, toNumber, type Rational } from "../rational";
+import { mod, TickCodec, ticksOf } from "../ticks";
 import { metricalHierarchy, type MetricalHierarchy } from "./metrical-weights";
 import { anticipations, lhlSyncopation, offBeatness, wnbd } from "./syncopation";
 
@@ -136,36 +137,17 @@ export interface FigureInput {
   events: number;
 }
 
-/**
- * Converts canonical rational strings to whole numbers of `unit` (a rational a/b): "n/d" is n·b/(d·a), in plain
- * integer arithmetic, much faster than parsing fractions on long songs; falls back to exact fractions.
- */
-function counter(unit: Rational): (at: string) => number {
-  const u = q(unit);
-  const a = Number(u.n);
-  const b = Number(u.d);
-  return (at: string) => {
-    const slash = at.indexOf("/");
-    const n = slash < 0 ? Number(at) : Number(at.slice(0, slash));
-    const d = slash < 0 ? 1 : Number(at.slice(slash + 1));
-    const x = (n * b) / (d * a);
-    if (Number.isSafeInteger(x) && Number.isSafeInteger(n * b)) return x;
-    const exact = q(at).div(u);
-    if (exact.d !== 1n) throw new RangeError(`position ${at} is not on the ${unit} grid`);
-    return Number(exact.s * exact.n);
-  };
-}
-
 /** Keys notes that start a sound: a note marked as continuing from the end of the loop (written by a rotation) does not. */
 function onsetNotes(doc: GrooveDocument) {
-  return doc.keys.notes.filter((n) => (n as { tiedFromEnd?: boolean }).tiedFromEnd !== true);
+  return doc.keys.notes.filter((n) => n.tiedFromEnd !== true);
 }
 
 const sortedUnique = (xs: Iterable<number>) => [...new Set(xs)].sort((a, b) => a - b);
 
 /** Extract what the figures need from a document. */
 export function figureInput(doc: GrooveDocument): FigureInput {
-  const toStep = counter(doc.grid.step);
+  const codec = new TickCodec(doc.grid.step);
+  const toStep = (at: Rational) => codec.toTicks(at);
   const hands: number[] = [];
   const feet: number[] = [];
   const backbeat: number[] = [];
@@ -201,8 +183,8 @@ export function figureInput(doc: GrooveDocument): FigureInput {
  * @example rotateFigureInput(figureInput(doc), 2)
  */
 export function rotateFigureInput(input: FigureInput, steps: number): FigureInput {
-  const total = Number(q(input.meter.beatsPerBar).div(input.meter.beatUnit).mul(input.bars).div(q(input.step)).n);
-  const rot = (xs: number[]) => xs.map((x) => (((x + steps) % total) + total) % total);
+  const total = ticksOf(barLength(input.meter).mul(input.bars), input.step, "groove length");
+  const rot = (xs: number[]) => xs.map((x) => mod(x + steps, total));
   return {
     ...input,
     onsets: { hands: sortedUnique(rot(input.onsets.hands)), feet: sortedUnique(rot(input.onsets.feet)), keys: sortedUnique(rot(input.onsets.keys)) },

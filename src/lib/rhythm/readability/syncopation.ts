@@ -10,6 +10,7 @@
  * Only onsets count: a note lasts until the next onset of the same stream (a tied continuation and a rest
  * are the same to these measures). The cycle wraps: the last note of a loop runs into the first one.
  */
+import { gcd, mod } from "../ticks";
 
 /** One note–silence pair that the LHL measure counts. */
 export interface LhlSyncopation {
@@ -108,18 +109,13 @@ function upperBound(sorted: readonly number[], x: number): number {
   return lo;
 }
 
-function gcd(a: number, b: number): number {
-  while (b) [a, b] = [b, a % b];
-  return Math.abs(a);
-}
-
 /**
  * Toussaint's off-beatness: the number of onsets at pulses coprime to the cycle length (for 16 pulses, the
  * odd ones). Positions are taken modulo `cycle`, so a multi-bar stream can be measured bar by bar.
  * @example offBeatness([0, 3, 6, 10, 12], 16) // 1 (son clave)
  */
 export function offBeatness(onsets: readonly number[], cycle: number): number {
-  return onsets.filter((o) => gcd(((o % cycle) + cycle) % cycle, cycle) === 1).length;
+  return onsets.filter((o) => gcd(mod(o, cycle), cycle) === 1).length;
 }
 
 /**

@@ -45,14 +45,3 @@ export function factorWords(k: Fraction): string {
   if (k.equals(new Fraction(1, 2))) return "halving";
   return `rescaling by ${k.toFraction()}`;
 }
-
-/** Note value words for messages: "1/8" → "an eighth". */
-export function noteWords(x: RationalInput): string {
-  const names: Record<string, string> = {
-    "1": "a whole note", "1/2": "a half note", "1/4": "a quarter", "1/8": "an eighth", "1/16": "a sixteenth",
-    "1/32": "a thirty-second", "3/8": "a dotted quarter", "3/16": "a dotted eighth", "1/12": "an eighth-note triplet",
-    "1/24": "a sixteenth-note triplet",
-  };
-  const s = q(x).abs().toFraction();
-  return names[s] ?? `${s} of a whole note`;
-}

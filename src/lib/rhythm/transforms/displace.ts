@@ -3,11 +3,12 @@
  * (an eighth note is the everyday case), so the same sound is written with the beat elsewhere.
  */
 import { barLength, LIMITS, RhythmError, type GrooveDocument, type KeyNote, type KitHit, type Section } from "../document";
-import { KIT_PIECE_IDS, type KitPieceId } from "../kit";
+import { KIT_PIECE_INDEX, type KitPieceId } from "../kit";
 import { q, type Rational, type RationalInput } from "../rational";
 import { shiftKeepsSwing, swingPair } from "../swing";
 import { mod, TickCodec, ticksOf } from "../ticks";
-import { checkBars, noteWords } from "./common";
+import { valueWords } from "../describe-position";
+import { checkBars } from "./common";
 
 /**
  * - "rotate": the groove is a loop; material moved past its end comes back at its start.
@@ -68,7 +69,7 @@ export function displaceWithReport(doc: GrooveDocument, by: RationalInput, mode:
   const x = ticksOf(shift, doc.grid.step, `displacement by ${shift.toFraction()}`);
   if (!shiftKeepsSwing(doc.swing, doc.meter, shift))
     throw new RhythmError(
-      `with ${doc.swing.unit} swing, displacing by ${noteWords(shift)} moves notes onto other parts of their swing pairs and changes the sound; displace by a multiple of ${swingPair(doc.swing).toFraction()} or make the groove straight first`,
+      `with ${doc.swing.unit} swing, displacing by ${valueWords(shift)} moves notes onto other parts of their swing pairs and changes the sound; displace by a multiple of ${swingPair(doc.swing).toFraction()} or make the groove straight first`,
     );
   if (mode === "rotate") {
     if (doc.sections.length > 1)
@@ -85,8 +86,6 @@ interface TickNote {
   d: number;
   note: KeyNote;
 }
-
-const pieceOrder = new Map<string, number>(KIT_PIECE_IDS.map((id, i) => [id, i]));
 
 function sortNotes(notes: TickNote[]): TickNote[] {
   return notes.sort((a, b) => a.s - b.s || a.note.pitch - b.note.pitch);
@@ -210,7 +209,7 @@ function shiftTimeline(doc: GrooveDocument, x: number, codec: TickCodec, mode: "
       out.splice(i, 1);
     }
   }
-  dropped.hits.sort((a, b) => q(a.at).compare(q(b.at)) || (pieceOrder.get(a.piece) ?? 0) - (pieceOrder.get(b.piece) ?? 0));
+  dropped.hits.sort((a, b) => q(a.at).compare(q(b.at)) || (KIT_PIECE_INDEX.get(a.piece) ?? 0) - (KIT_PIECE_INDEX.get(b.piece) ?? 0));
 
   let sections: Section[] = doc.sections.map((s) => ({ ...s, startBar: s.startBar + before }));
   if (sections.length > 0) {
