@@ -173,9 +173,9 @@ async function measureBrowser(context, url, bars) {
   return { paint: paint.sort((a, b) => a - b), update: update.sort((a, b) => a - b), errors, drawn: drawn.reduce((a, b) => a + b, 0) / Math.max(1, drawn.length), drawMs: drawMs.sort((a, b) => a - b) };
 }
 
-function measureNode(bars, runs = 5) {
+function measureNode(bars, runs = 9) {
   const score = spellGroove(benchGroove(bars));
-  renderScoreOnServer(score, { width: 1000 }); // warm up (fonts, JIT)
+  for (let i = 0; i < 3; i++) renderScoreOnServer(score, { width: 1000 }); // warm up (fonts, JIT)
   const times = [];
   for (let i = 0; i < runs; i++) {
     const t0 = performance.now();
@@ -212,7 +212,7 @@ try {
   } finally {
     await context.close();
   }
-  for (const bars of [4, 32]) say(`node: server SVG render ${fmt(measureNode(bars))} ms per bar (${bars}-bar groove, width 1000, median of 5)`);
+  for (const bars of [4, 32]) say(`node: server SVG render ${fmt(measureNode(bars))} ms per bar (${bars}-bar groove with keys, width 1000, median of 9 after 3 warm-up renders)`);
 } finally {
   rmSync(profile, { recursive: true, force: true });
   await server.stop();
