@@ -5,6 +5,7 @@
  * the system layout, then drawn. Everything the model decides is taken as it is: beam groups (never
  * VexFlow's automatic beaming), stem directions, tuplets, ties, rests and noteheads.
  */
+import { beatGrouping, beatStarts } from "../../lib/rhythm/meter";
 import type { Head, KeysHead, KitHead, NotationBar, NotationScore, NoteEvent, NoteType, VoiceEvent } from "../../lib/rhythm/notation/model";
 import {
   Accidental,
@@ -501,7 +502,7 @@ export class BarBuild {
     };
   }
 
-  /** x of every beat of the time signature: a note's x where one starts on the beat, else interpolated. */
+  /** x of every counted beat: a note's x where one starts on the beat, else interpolated. */
   private beatXs(startX: number, endX: number): number[] {
     const points = new Map<number, number>();
     for (const o of this.onsets) {
@@ -514,10 +515,8 @@ export class BarBuild {
     const known = [...points.entries()].sort((a, b) => a[0] - b[0]);
     if (!points.has(0)) known.unshift([0, startX]);
     known.push([this.barLength, endX]);
-    const { beatsPerBar, beatUnit } = this.score.meter;
     const out: number[] = [];
-    for (let b = 0; b < beatsPerBar; b++) {
-      const t = b / beatUnit;
+    for (const t of countedBeats(this.score.meter)) {
       let j = 0;
       while (j < known.length - 1 && known[j + 1]![0] <= t + 1e-9) j++;
       const [t0, x0] = known[j]!;
@@ -526,6 +525,17 @@ export class BarBuild {
     }
     return out;
   }
+}
+
+/**
+ * Starts of the counted beats of a bar (whole notes), as the metronome and the playhead count them (the core's
+ * meter rules: 4/4 → four quarters, 6/8 → two dotted quarters, 7/8 → 2+2+3). The notation model always
+ * fills in a grouping; only one that differs from the meter's default was the document's own.
+ */
+function countedBeats(meter: NotationScore["meter"]): number[] {
+  const defaults = beatGrouping({ beatsPerBar: meter.beatsPerBar, beatUnit: meter.beatUnit });
+  const own = meter.grouping.length !== defaults.length || meter.grouping.some((g, i) => g !== defaults[i]);
+  return beatStarts({ beatsPerBar: meter.beatsPerBar, beatUnit: meter.beatUnit, ...(own ? { grouping: [...meter.grouping] } : {}) }).map((f) => f.valueOf());
 }
 
 /** The Formatter's minimum is tight: give notes some air so a bar reads comfortably. */

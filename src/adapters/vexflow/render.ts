@@ -21,7 +21,7 @@ export interface BarLayout {
   readonly x1: number;
   readonly noteStartX: number;
   readonly noteEndX: number;
-  /** x of each beat of the time signature (beatsPerBar entries). */
+  /** x of each counted beat (as the metronome and the playhead count them: 4 in 4/4, 2 in 6/8, 3 in 7/8). */
   readonly beats: readonly number[];
 }
 

@@ -17,7 +17,7 @@ import { createInkSvg, describeScore, drawBarGroup, drawSystemTies, layoutOf, ty
 import { configureVexFlow } from "./vexflow";
 
 export interface PlayPosition {
-  /** 0-based bar index in the score and 0-based beat of the time signature. */
+  /** 0-based bar index in the score and 0-based counted beat (as the playback plan counts them). */
   readonly bar: number;
   readonly beat: number;
 }

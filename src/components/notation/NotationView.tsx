@@ -17,7 +17,7 @@ type Renderer = import("../../adapters/vexflow/view").NotationRenderer;
 type ScoreLayout = import("../../adapters/vexflow/render").ScoreLayout;
 
 export interface PlayPosition {
-  /** 0-based bar and beat (a beat of the time signature). */
+  /** 0-based bar and counted beat (as the playback plan counts them: 2 per bar in 6/8). */
   readonly bar: number;
   readonly beat: number;
 }

@@ -225,6 +225,17 @@ describe("systems, wrapping and layout", () => {
     expect([...ys].sort((a, b) => a - b)).toEqual(ys);
   });
 
+  it("counts beats as the playhead does: two dotted quarters in 6/8, 2+2+3 in 7/8 [common practice]", () => {
+    const sixEight = render(groove({ meter: { beatsPerBar: 6, beatUnit: 8 }, kit: { ride: every(1, 6, 8) } }));
+    const [b68] = sixEight.layout.bars;
+    expect(b68!.beats.length).toBe(2);
+    // The second counted beat is the fourth eighth: where the fourth ride note stands.
+    const ride = heads(sixEight).filter((h) => h.glyph === GLYPH.noteheadXBlack).map((h) => h.x).sort((a, b) => a - b);
+    expect(Math.abs(b68!.beats[1]! - ride[3]!)).toBeLessThan(2);
+    const sevenEight = render(groove({ meter: { beatsPerBar: 7, beatUnit: 8 }, kit: { ride: every(1, 7, 8) } }));
+    expect(sevenEight.layout.bars[0]!.beats.length).toBe(3);
+  });
+
   it("draws a range of bars (fromBar, toBar) with their own bar numbers", () => {
     const r = render(eight, { fromBar: 2, toBar: 5 });
     expect(r.layout.bars.map((b) => b.bar)).toEqual([2, 3, 4]);
