@@ -30,7 +30,7 @@ export const LIMITS = {
 const BEAT_UNITS = [1, 2, 4, 8, 16, 32] as const;
 
 /** An exact rational: "3/16", "2", or a plain number (decimals are converted exactly: 75.5 → "151/2"). */
-export const rationalSchema = z
+const rationalSchema = z
   .union([z.string().regex(RATIONAL_PATTERN, "must be a rational such as 3/16 or 2"), z.number().finite()])
   .transform((v, ctx): Rational => {
     try {
@@ -54,19 +54,19 @@ export const meterSchema = z.object({
   grouping: z.array(z.number().int().min(1)).max(LIMITS.maxBeatsPerBar).optional(),
 });
 
-export const tempoSchema = z.object({
+const tempoSchema = z.object({
   /** Beats per minute, exact ("75", "151/2"). */
   bpm: positiveRational,
   /** The note value that carries the beat: "1/4" for a quarter, "3/8" for a dotted quarter (6/8). */
   beatNote: positiveRational,
 });
 
-export const gridSchema = z.object({
+const gridSchema = z.object({
   /** The step of the grid in whole notes: "1/16" sixteenths, "1/12" eighth-note triplets, "1/24" sixteenth triplets. */
   step: positiveRational,
 });
 
-export const swingSchema = z.object({
+const swingSchema = z.object({
   /** The note value that is swung in pairs ("1/8" for eighth swing, "1/16" for sixteenth swing). */
   unit: positiveRational,
   /** Share of the pair given to the first note: 0.5 straight, 2/3 triplet swing, at most 0.75. */
@@ -82,18 +82,18 @@ export const sectionSchema = z.object({
   repeats: z.number().int().min(1).max(64),
 });
 
-export const kitHitSchema = z.object({
+const kitHitSchema = z.object({
   at: rationalSchema,
   dynamic: z.enum(DYNAMICS).default("normal"),
   articulation: z.enum(ARTICULATIONS).optional(),
 });
 
-export const kitLaneSchema = z.object({
+const kitLaneSchema = z.object({
   piece: z.enum(KIT_PIECE_IDS, { message: `unknown kit piece; known pieces: ${KIT_PIECE_IDS.join(", ")}` }),
   hits: z.array(kitHitSchema).max(LIMITS.maxHitsPerLane),
 });
 
-export const keyNoteSchema = z.object({
+const keyNoteSchema = z.object({
   at: rationalSchema,
   duration: positiveRational,
   /** MIDI note number, 60 = middle C. */

@@ -105,11 +105,6 @@ export function atOfStep(doc: Pick<GrooveDocument, "grid">, col: number): Ration
   return fmt(q(doc.grid.step).mul(col));
 }
 
-/** Grid column of a position (may be fractional if off the grid). */
-export function stepOfAt(doc: Pick<GrooveDocument, "grid">, at: RationalInput): number {
-  return q(at).div(q(doc.grid.step)).valueOf();
-}
-
 /**
  * Where a position is, for people: the core's counting words ("bar 2, beat 3 and").
  * @example describeAt(emptyGroove(), "1/4") // "bar 1, beat 2"
@@ -176,7 +171,7 @@ export function toggleHit(doc: GrooveDocument, piece: KitPieceId, at: RationalIn
 }
 
 /** The dynamic after `d` in the cycle ghost → normal → accent → ghost. */
-export function nextDynamic(d: Dynamic): Dynamic {
+function nextDynamic(d: Dynamic): Dynamic {
   return DYNAMICS[(DYNAMICS.indexOf(d) + 1) % DYNAMICS.length]!;
 }
 

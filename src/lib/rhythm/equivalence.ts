@@ -21,7 +21,7 @@ import { ARTICULATIONS, KIT_PIECE_INDEX } from "./kit";
 import { compileSchedule, secondsPerWholeNote, type ScheduledEvent } from "./schedule";
 
 /** Onsets and durations closer than this are equal (1 microsecond). */
-export const EQUIVALENCE_TOLERANCE_SECONDS = 1e-6;
+const EQUIVALENCE_TOLERANCE_SECONDS = 1e-6;
 
 export interface Mismatch {
   /** The side that has this event without a partner on the other side. */

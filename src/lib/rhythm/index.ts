@@ -14,3 +14,5 @@ export * from "./readings";
 export * from "./editing";
 export * from "./tap-tempo";
 export * from "./sections";
+export * from "./playback-plan";
+export * from "./onsets";

@@ -40,24 +40,7 @@ export function toNumber(x: RationalInput): number {
   return q(x).valueOf();
 }
 
-/**
- * True when `x` is a whole multiple of `step` (step > 0).
- * @example isMultipleOf("3/8", "1/8") // true
- */
-export function isMultipleOf(x: RationalInput, step: RationalInput): boolean {
-  return q(x).div(q(step)).d === 1n;
-}
-
 /** Compare two rationals: negative, zero or positive. */
 export function compare(a: RationalInput, b: RationalInput): number {
   return q(a).compare(q(b));
-}
-
-/**
- * A decimal or integer (such as a tapped tempo, 75.5) as an exact rational string.
- * @example fromDecimal(75.5) // "151/2"
- */
-export function fromDecimal(x: number): Rational {
-  if (!Number.isFinite(x)) throw new RangeError(`not a finite number: ${x}`);
-  return fmt(q(x));
 }

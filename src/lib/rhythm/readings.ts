@@ -102,7 +102,7 @@ export interface FindReadingsOptions {
   spellTop?: number;
 }
 
-export const SCORE_WEIGHTS = { backbeat: 3, kick: 1.5, tempo: 2, lhl: 1, wnbd: 0.5, anticipations: 1, ink: 0.5 } as const;
+const SCORE_WEIGHTS = { backbeat: 3, kick: 1.5, tempo: 2, lhl: 1, wnbd: 0.5, anticipations: 1, ink: 0.5 } as const;
 
 /**
  * Apply renotation steps in order.

@@ -26,10 +26,10 @@ export interface TapAnalysis {
  * Limits for the plain word, as a share of the beat (our own choice: a 2 % wobble at 120 bpm is 10 ms,
  * about the spread of a practised player's taps; 6 % is 30 ms, clearly audible against a click).
  */
-export const STEADINESS_LIMITS = { steady: 0.02, fairlySteady: 0.06 } as const;
+const STEADINESS_LIMITS = { steady: 0.02, fairlySteady: 0.06 } as const;
 
 /** Only the most recent intervals count, so the reading follows a tempo that settles. */
-export const DEFAULT_WINDOW = 8;
+const DEFAULT_WINDOW = 8;
 
 /**
  * Analyse tap times (ms, ascending). Uses the last `window` intervals.

@@ -3,11 +3,11 @@
  * A value is a type (whole … 1024th) with 0–2 dots; each dot adds half of the previous part
  * (common practice: a dotted quarter is 1/4 + 1/8 = 3/8, a double-dotted quarter 7/16).
  */
-import { Fraction, fmt, q, type Rational, type RationalInput } from "../rational";
+import { Fraction, q, type RationalInput } from "../rational";
 import { NOTE_TYPES, type NoteType, type NoteValue, type TupletRef } from "./model";
 
 /** Whole notes in an undotted value of this type (whole = 1, half = 1/2, …). */
-export function typeLength(type: NoteType): Fraction {
+function typeLength(type: NoteType): Fraction {
   return new Fraction(1, 2 ** NOTE_TYPES.indexOf(type));
 }
 
@@ -39,11 +39,6 @@ export function noteValueOf(length: RationalInput, maxDots: 0 | 1 | 2 = 1): Note
     if (Number.isInteger(index) && index < NOTE_TYPES.length) return { type: NOTE_TYPES[index]!, dots };
   }
   return null;
-}
-
-/** Canonical string of a value's length. */
-export function valueLengthString(value: NoteValue, tuplet?: Pick<TupletRef, "actual" | "normal">): Rational {
-  return fmt(valueLength(value, tuplet));
 }
 
 /** A value, in ticks of a timebase with D ticks per whole note. */

@@ -3,5 +3,5 @@ export * from "./model";
 export { spellGroove, spellBars } from "./spell";
 export { KIT_STAFF, kitDisplay, kitVoice, staffIndex, type KitStaffEntry, type KitSource } from "./kit-staff";
 export { spellMidi, chooseAccidentals, type Accidentals, type SpelledPitch } from "./pitch-spelling";
-export { valueLength, valueLengthString, noteValueOf, typeLength } from "./durations";
+export { valueLength, noteValueOf } from "./durations";
 export { isBeamable } from "./beams";

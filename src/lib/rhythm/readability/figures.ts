@@ -24,9 +24,9 @@ import { anticipations, lhlSyncopation, offBeatness, wnbd } from "./syncopation"
 export const USUAL_TEMPO_RANGE = { min: 60, max: 180 } as const;
 
 /** The kit pieces that play a backbeat (common practice: snare, or cross-stick in quieter grooves). */
-export const BACKBEAT_PIECES: readonly KitPieceId[] = ["snare", "cross-stick"];
+const BACKBEAT_PIECES: readonly KitPieceId[] = ["snare", "cross-stick"];
 
-export const PART_NAMES = ["hands", "feet", "keys"] as const;
+const PART_NAMES = ["hands", "feet", "keys"] as const;
 export type PartName = (typeof PART_NAMES)[number];
 
 export interface SyncopationFigures {
@@ -113,11 +113,6 @@ export function countNotation(score: NotationScore): NotationCounts {
   return { notes, rests, ties };
 }
 
-/** The hierarchy a document is measured on. */
-export function documentHierarchy(doc: Pick<GrooveDocument, "meter" | "grid" | "tempo">): MetricalHierarchy {
-  return metricalHierarchy(doc.meter, doc.grid.step, doc.tempo.beatNote);
-}
-
 /**
  * What the figures are computed from: the document's header and its onsets as whole numbers of grid steps
  * from the start. Separate from the document so a rotation can be measured without rebuilding it.
@@ -191,13 +186,6 @@ export function rotateFigureInput(input: FigureInput, steps: number): FigureInpu
     backbeat: rot(input.backbeat),
     kick: rot(input.kick),
   };
-}
-
-/** Onset pulses of each part (chords and simultaneous kit hits count once; the written bars are a loop). */
-export function partOnsets(doc: GrooveDocument, h: MetricalHierarchy = documentHierarchy(doc)): Record<PartName, number[]> {
-  const input = figureInput(doc);
-  const k = Number(q(doc.grid.step).div(h.pulse).n);
-  return { hands: input.onsets.hands.map((x) => x * k), feet: input.onsets.feet.map((x) => x * k), keys: input.onsets.keys.map((x) => x * k) };
 }
 
 function measure(onsets: number[], h: MetricalHierarchy, bars: number, beats: number[]): SyncopationFigures {
