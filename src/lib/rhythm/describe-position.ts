@@ -32,7 +32,10 @@ export function describePosition(doc: Pick<GrooveDocument, "meter">, at: Rationa
   return describeInMeter(doc.meter, at);
 }
 
-/** Same as `describePosition`, from the meter alone. */
+/**
+ * Same as `describePosition`, from the meter alone.
+ * @example describeInMeter({ beatsPerBar: 6, beatUnit: 8 }, "1/2").text // "bar 1, beat 2 and"
+ */
 export function describeInMeter(meter: Meter, at: RationalInput): PositionWords {
   const bar = barLength(meter);
   const a = q(at);

@@ -29,6 +29,14 @@ export const LIMITS = {
 
 const BEAT_UNITS = [1, 2, 4, 8, 16, 32] as const;
 
+// Plain-words messages for the range checks (zod's defaults name a number, not what it means).
+const BEATS_MESSAGE = `beats per bar must be from 1 to ${LIMITS.maxBeatsPerBar}`;
+const BARS_MESSAGE = `a groove has 1 to ${LIMITS.maxBars} bars`;
+const SWING_MESSAGE = "swing must be between 0.5 (straight) and 0.75";
+const REPEATS_MESSAGE = "a section plays from 1 to 64 times";
+const VELOCITY_MESSAGE = "velocity must be a whole number from 1 to 127 (MIDI note-on velocity)";
+const PITCH_MESSAGE = "pitch must be a MIDI number from 0 to 127";
+
 /** An exact rational: "3/16", "2", or a plain number (decimals are converted exactly: 75.5 → "151/2"). */
 const rationalSchema = z
   .union([z.string().regex(RATIONAL_PATTERN, "must be a rational such as 3/16 or 2"), z.number().finite()])
@@ -45,13 +53,16 @@ const positiveRational = rationalSchema.refine((v) => q(v).s > 0n && q(v).n > 0n
 
 export const meterSchema = z.object({
   /** Beats in one bar, the time signature's upper number. */
-  beatsPerBar: z.number().int().min(1).max(LIMITS.maxBeatsPerBar),
+  beatsPerBar: z.number().int("beats per bar must be a whole number").min(1, BEATS_MESSAGE).max(LIMITS.maxBeatsPerBar, BEATS_MESSAGE),
   /** Note value of one beat, the time signature's lower number (4 = quarter). */
   beatUnit: z.union([z.literal(1), z.literal(2), z.literal(4), z.literal(8), z.literal(16), z.literal(32)], {
     message: `beat unit must be one of ${BEAT_UNITS.join(", ")}`,
   }),
   /** How beats are grouped, in beat units, e.g. [3, 3] for 6/8 or [2, 2, 3] for 7/8. Must add up to beatsPerBar. */
-  grouping: z.array(z.number().int().min(1)).max(LIMITS.maxBeatsPerBar).optional(),
+  grouping: z
+    .array(z.number().int("a beat group must be a whole number of beats").min(1, "a beat group has at least one beat"))
+    .max(LIMITS.maxBeatsPerBar, `a grouping has at most ${LIMITS.maxBeatsPerBar} groups`)
+    .optional(),
 });
 
 const tempoSchema = z.object({
@@ -70,16 +81,16 @@ const swingSchema = z.object({
   /** The note value that is swung in pairs ("1/8" for eighth swing, "1/16" for sixteenth swing). */
   unit: positiveRational,
   /** Share of the pair given to the first note: 0.5 straight, 2/3 triplet swing, at most 0.75. */
-  ratio: z.number().min(0.5).max(0.75),
+  ratio: z.number().min(0.5, SWING_MESSAGE).max(0.75, SWING_MESSAGE),
 });
 
 export const sectionSchema = z.object({
-  name: z.string().trim().min(1).max(40),
+  name: z.string().trim().min(1, "a section needs a name").max(40, "a section name has at most 40 characters"),
   /** First bar of the section, 0-based. */
-  startBar: z.number().int().min(0),
-  bars: z.number().int().min(1),
+  startBar: z.number().int("a section starts on a whole bar").min(0, "a section cannot start before the first bar"),
+  bars: z.number().int("a section has a whole number of bars").min(1, "a section has at least one bar"),
   /** How many times the section is played in a row. */
-  repeats: z.number().int().min(1).max(64),
+  repeats: z.number().int("repeats must be a whole number").min(1, REPEATS_MESSAGE).max(64, REPEATS_MESSAGE),
 });
 
 const kitHitSchema = z.object({
@@ -90,15 +101,15 @@ const kitHitSchema = z.object({
 
 const kitLaneSchema = z.object({
   piece: z.enum(KIT_PIECE_IDS, { message: `unknown kit piece; known pieces: ${KIT_PIECE_IDS.join(", ")}` }),
-  hits: z.array(kitHitSchema).max(LIMITS.maxHitsPerLane),
+  hits: z.array(kitHitSchema).max(LIMITS.maxHitsPerLane, `a kit lane has at most ${LIMITS.maxHitsPerLane} hits`),
 });
 
 const keyNoteSchema = z.object({
   at: rationalSchema,
   duration: positiveRational,
   /** MIDI note number, 60 = middle C. */
-  pitch: z.number().int().min(0, "pitch must be a MIDI number from 0 to 127").max(127, "pitch must be a MIDI number from 0 to 127"),
-  velocity: z.number().int().min(1).max(127).default(90),
+  pitch: z.number().int(PITCH_MESSAGE).min(0, PITCH_MESSAGE).max(127, PITCH_MESSAGE),
+  velocity: z.number().int(VELOCITY_MESSAGE).min(1, VELOCITY_MESSAGE).max(127, VELOCITY_MESSAGE).default(90),
   /**
    * Loops only: this note (at 0) continues the note of the same pitch and velocity that ends where the groove
    * ends, so when the loop repeats they are one note held across the seam. Written by `displace` when a
@@ -108,28 +119,34 @@ const keyNoteSchema = z.object({
 });
 
 const grooveObjectSchema = z.object({
-  schemaVersion: z.literal(SCHEMA_VERSION),
+  schemaVersion: z.literal(SCHEMA_VERSION, { message: `schemaVersion must be ${SCHEMA_VERSION}` }),
   meter: meterSchema,
   tempo: tempoSchema,
   grid: gridSchema,
   swing: swingSchema.default({ unit: "1/8", ratio: 0.5 }),
-  bars: z.number().int().min(1).max(LIMITS.maxBars),
+  bars: z.number().int("bars must be a whole number").min(1, BARS_MESSAGE).max(LIMITS.maxBars, BARS_MESSAGE),
   /** Song form. Empty means the whole groove is one loop played once. */
-  sections: z.array(sectionSchema).max(LIMITS.maxSections).default([]),
-  kit: z.object({ lanes: z.array(kitLaneSchema).max(KIT_PIECE_IDS.length) }),
+  sections: z.array(sectionSchema).max(LIMITS.maxSections, `a groove has at most ${LIMITS.maxSections} sections`).default([]),
+  kit: z.object({ lanes: z.array(kitLaneSchema).max(KIT_PIECE_IDS.length, `the kit has at most ${KIT_PIECE_IDS.length} lanes, one per piece`) }),
   keys: z.object({
-    notes: z.array(keyNoteSchema).max(LIMITS.maxKeyNotes),
+    notes: z.array(keyNoteSchema).max(LIMITS.maxKeyNotes, `the keys part has at most ${LIMITS.maxKeyNotes} notes`),
     /** Notes at or above this pitch go on the upper (treble) staff. */
-    splitPitch: z.number().int().min(0).max(127).default(60),
+    splitPitch: z.number().int(PITCH_MESSAGE).min(0, PITCH_MESSAGE).max(127, PITCH_MESSAGE).default(60),
   }),
 });
 
-/** Whole notes in one bar. */
+/**
+ * Whole notes in one bar.
+ * @example barLength({ beatsPerBar: 7, beatUnit: 8 }).toFraction() // "7/8"
+ */
 export function barLength(meter: { beatsPerBar: number; beatUnit: number }): Fraction {
   return new Fraction(meter.beatsPerBar, meter.beatUnit);
 }
 
-/** Whole notes in the written groove (bars × bar length; repeats not counted). */
+/**
+ * Whole notes in the written groove (bars × bar length; repeats not counted).
+ * @example grooveLength({ meter: { beatsPerBar: 4, beatUnit: 4 }, bars: 3 }).toFraction() // "3"
+ */
 export function grooveLength(doc: Pick<GrooveDocument, "meter" | "bars">): Fraction {
   return barLength(doc.meter).mul(doc.bars);
 }
@@ -193,8 +210,12 @@ function checkGroove(doc: z.output<typeof grooveObjectSchema>, ctx: Ctx): void {
   });
 }
 
-/** The full schema: shape plus the musical checks. Use `parseGroove` unless you need zod composition. */
-export const grooveDocumentSchema = grooveObjectSchema.superRefine(checkGroove);
+/**
+ * The full schema: shape plus the musical checks. Use `parseGroove` unless you need zod composition.
+ * The musical checks run only on a document whose shape is valid (they read its rationals as fractions);
+ * a malformed one gets the shape issues alone.
+ */
+export const grooveDocumentSchema = grooveObjectSchema.superRefine(checkGroove, { when: (payload) => payload.issues.length === 0 });
 
 export type GrooveDocument = z.output<typeof grooveObjectSchema>;
 /** What producers may send: numbers allowed for rationals, defaults may be omitted. */
@@ -215,7 +236,11 @@ export interface DocumentIssue {
 
 export type ParseResult = { ok: true; doc: GrooveDocument } | { ok: false; issues: DocumentIssue[] };
 
-/** Error thrown by the core for invalid documents or impossible transforms; `issues` name the fields. */
+/**
+ * Error thrown by the core for invalid documents or impossible transforms; the message says why in plain
+ * words and `issues` name the fields.
+ * @example try { halfTime(threeBars) } catch (e) { if (e instanceof RhythmError) show(e.message) } // "halving a 3-bar groove gives 1 1/2 bars; …"
+ */
 export class RhythmError extends Error {
   constructor(
     message: string,
@@ -237,14 +262,20 @@ export function parseGroove(input: unknown): ParseResult {
   return { ok: true, doc: normalizeGroove(r.data) };
 }
 
-/** Like `parseGroove`, but throws a RhythmError listing the issues. */
+/**
+ * Like `parseGroove`, but throws a RhythmError listing the issues.
+ * @example assertGroove({ ...emptyGroove(), bars: 0 }) // throws "invalid groove: bars: a groove has 1 to 4096 bars"
+ */
 export function assertGroove(input: unknown): GrooveDocument {
   const r = parseGroove(input);
   if (!r.ok) throw new RhythmError(`invalid groove: ${r.issues.map((i) => `${i.path}: ${i.message}`).join("; ")}`, r.issues);
   return r.doc;
 }
 
-/** Sort hits by position and notes by position then pitch, so equal grooves have equal JSON. */
+/**
+ * Sort hits by position and notes by position then pitch, so equal grooves have equal JSON.
+ * @example JSON.stringify(normalizeGroove(a)) === JSON.stringify(normalizeGroove(b)) // same content, any order
+ */
 export function normalizeGroove(doc: GrooveDocument): GrooveDocument {
   const byAt = (a: { at: Rational }, b: { at: Rational }) => q(a.at).compare(q(b.at));
   return {
@@ -266,7 +297,10 @@ export function playOrder(doc: Pick<GrooveDocument, "bars" | "sections">): numbe
   return order;
 }
 
-/** A new empty groove: one bar of 4/4 at 96 bpm on a sixteenth grid, with the usual three kit rows. */
+/**
+ * A new empty groove: one bar of 4/4 at 96 bpm on a sixteenth grid, with the usual three kit rows.
+ * @example toggleHit(emptyGroove(), "snare", "1/4") // a snare on beat 2
+ */
 export function emptyGroove(): GrooveDocument {
   return {
     schemaVersion: SCHEMA_VERSION,

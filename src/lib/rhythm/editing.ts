@@ -92,7 +92,10 @@ const untie = (n: KeyNote): KeyNote => {
 };
 const sortNotes = (notes: KeyNote[]) => notes.map(untie).sort((a, b) => byAt(a, b) || a.pitch - b.pitch);
 
-/** Step count of the grid: how many grid steps the groove has. */
+/**
+ * Step count of the grid: how many grid steps the groove has.
+ * @example stepCount({ ...emptyGroove(), bars: 2 }) // 32 (two 4/4 bars of sixteenths)
+ */
 export function stepCount(doc: Pick<GrooveDocument, "meter" | "bars" | "grid">): number {
   return Number(grooveLength(doc).div(q(doc.grid.step)).valueOf());
 }
@@ -116,7 +119,7 @@ export function describeAt(doc: Pick<GrooveDocument, "meter">, at: RationalInput
 function requireOnGrid(doc: GrooveDocument, at: RationalInput): Rational {
   const pos = q(at);
   if (pos.compare(0) < 0 || pos.compare(grooveLength(doc)) >= 0)
-    throw new RhythmError(`position ${fmt(pos)} is outside the groove`);
+    throw new RhythmError(`position ${fmt(pos)} is outside the groove (0 up to ${fmt(grooveLength(doc))} whole notes)`);
   if (pos.div(q(doc.grid.step)).d !== 1n) throw new RhythmError(`position ${fmt(pos)} is not on the ${doc.grid.step} grid`);
   return fmt(pos);
 }
@@ -124,7 +127,10 @@ function requireOnGrid(doc: GrooveDocument, at: RationalInput): Rational {
 // ---------------------------------------------------------------------------------------------------------------
 // Kit hits
 
-/** The hit of `piece` at `at`, if any. */
+/**
+ * The hit of `piece` at `at`, if any.
+ * @example hitAt(toggleHit(doc, "snare", "1/4"), "snare", "1/4") // { at: "1/4", dynamic: "normal" }
+ */
 export function hitAt(doc: GrooveDocument, piece: KitPieceId, at: RationalInput): KitHit | undefined {
   const key = fmt(at);
   return doc.kit.lanes.find((l) => l.piece === piece)?.hits.find((h) => h.at === key);
@@ -187,7 +193,10 @@ export function cycleDynamic(doc: GrooveDocument, piece: KitPieceId, at: Rationa
   });
 }
 
-/** Set a hit's dynamic (adding the hit when the step is empty). */
+/**
+ * Set a hit's dynamic (adding the hit when the step is empty).
+ * @example setDynamic(doc, "snare", "5/16", "ghost") // a ghost note on the "e" of beat 2
+ */
 export function setDynamic(doc: GrooveDocument, piece: KitPieceId, at: RationalInput, dynamic: Dynamic): GrooveDocument {
   const key = requireOnGrid(doc, at);
   return withLane(doc, piece, (hits) => {
@@ -266,7 +275,10 @@ export function addLane(doc: GrooveDocument, piece: KitPieceId): GrooveDocument 
   return { ...doc, kit: { ...doc.kit, lanes } };
 }
 
-/** Remove a kit row; its hits are reported in `dropped`. */
+/**
+ * Remove a kit row; its hits are reported in `dropped`.
+ * @example removeLane(doc, "snare").dropped.map((d) => d.where) // ["bar 1, beat 2", …]
+ */
 export function removeLane(doc: GrooveDocument, piece: KitPieceId): EditResult {
   const lane = doc.kit.lanes.find((l) => l.piece === piece);
   if (!lane) return { doc, dropped: [], adjusted: [] };
@@ -297,7 +309,10 @@ function dropNote(doc: GrooveDocument, n: KeyNote, reason: string): DroppedNote 
 // ---------------------------------------------------------------------------------------------------------------
 // Keys notes
 
-/** The note of `pitch` sounding at `at` (started there or held through it), if any. */
+/**
+ * The note of `pitch` sounding at `at` (started there or held through it), if any.
+ * @example keyNoteAt(doc, 60, "1/4") // the middle C struck at 0 and held for a half note
+ */
 export function keyNoteAt(doc: GrooveDocument, pitch: number, at: RationalInput): KeyNote | undefined {
   const pos = q(at);
   return doc.keys.notes.find(
@@ -388,7 +403,10 @@ export function setKeyNoteVelocity(doc: GrooveDocument, at: RationalInput, pitch
   return { ...doc, keys: { ...doc.keys, notes } };
 }
 
-/** Remove the note of `pitch` that starts at `at`. */
+/**
+ * Remove the note of `pitch` that starts at `at` (no change when there is none).
+ * @example removeKeyNote(doc, "0", 60)
+ */
 export function removeKeyNote(doc: GrooveDocument, at: RationalInput, pitch: number): GrooveDocument {
   const key = fmt(at);
   const notes = doc.keys.notes.filter((n) => !(n.at === key && n.pitch === pitch));
@@ -442,7 +460,7 @@ function sectionsAfterDelete(doc: GrooveDocument, start: number, count: number):
  */
 export function insertBar(doc: GrooveDocument, index: number, count = 1): GrooveDocument {
   if (!Number.isInteger(index) || index < 0 || index > doc.bars || !Number.isInteger(count) || count < 1)
-    throw new RhythmError(`cannot insert bars before bar ${index + 1} of ${doc.bars}`);
+    throw new RhythmError(`cannot insert ${count} bar${count === 1 ? "" : "s"} before bar ${index + 1}: insert at least one whole bar, before bar 1 to bar ${doc.bars + 1}`);
   requireBarLimit(doc.bars + count);
   const bar = barLength(doc.meter);
   const point = bar.mul(index);
@@ -553,7 +571,7 @@ export const PASTED_OVER = "it was pasted over";
  * @example pasteBars(doc, clip, 4)
  */
 export function pasteBars(doc: GrooveDocument, clip: BarClip, atBar: number): EditResult {
-  if (!Number.isInteger(atBar) || atBar < 0 || atBar > doc.bars) throw new RhythmError(`cannot paste at bar ${atBar + 1}`);
+  if (!Number.isInteger(atBar) || atBar < 0 || atBar > doc.bars) throw new RhythmError(`cannot paste at bar ${atBar + 1}: paste at bar 1 to bar ${doc.bars + 1}`);
   requireBarLimit(atBar + clip.bars);
   let base = doc;
   if (atBar + clip.bars > doc.bars) base = insertBar(doc, doc.bars, atBar + clip.bars - doc.bars);
@@ -787,7 +805,10 @@ export function changeSwing(doc: GrooveDocument, swing: Partial<Swing>): EditRes
   return { doc: { ...doc, swing: next }, dropped: [], adjusted: [] };
 }
 
-/** One line per lost item, for a notice: "Snare (accent), bar 2, beat 4: it lies beyond the end of a 3/4 bar". */
+/**
+ * One line per lost item, for a notice.
+ * @example describeDropped(changeMeter(doc, { beatsPerBar: 3, beatUnit: 4 }).dropped[0]) // "Snare (accent), bar 1, beat 4: it lies beyond the end of a 3/4 bar"
+ */
 export function describeDropped(item: DroppedItem, noteName: (pitch: number) => string = String): string {
   if (item.kind === "hit") {
     const extra = [item.dynamic !== "normal" ? item.dynamic : null, item.articulation ?? null].filter(Boolean).join(", ");

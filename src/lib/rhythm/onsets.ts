@@ -26,7 +26,10 @@ export interface OnsetOptions {
 const WINDOW = 128;
 const HOP = 32;
 
-/** Mix channels to one (mean). */
+/**
+ * Mix channels to one (mean).
+ * @example mixDown([left, right]) // the mono signal detectOnsets reads
+ */
 export function mixDown(channels: readonly Float32Array[]): Float32Array {
   if (channels.length === 1) return channels[0]!;
   const n = channels[0]!.length;

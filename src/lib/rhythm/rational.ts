@@ -35,12 +35,18 @@ export function fmt(x: RationalInput): Rational {
   return q(x).toFraction();
 }
 
-/** Float value, for seconds and display only. */
+/**
+ * Float value, for seconds and display only.
+ * @example toNumber("3/8") // 0.375
+ */
 export function toNumber(x: RationalInput): number {
   return q(x).valueOf();
 }
 
-/** Compare two rationals: negative, zero or positive. */
+/**
+ * Compare two rationals: negative, zero or positive.
+ * @example compare("1/4", "3/16") // 1
+ */
 export function compare(a: RationalInput, b: RationalInput): number {
   return q(a).compare(q(b));
 }

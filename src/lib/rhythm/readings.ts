@@ -118,7 +118,10 @@ export function applySteps(doc: GrooveDocument, steps: readonly Transform[]): Gr
   return d;
 }
 
-/** The common re-barring twins of a meter, same bar length (common practice): 4/4 ↔ 2/2, 3/4 ↔ 6/8. */
+/**
+ * The common re-barring twins of a meter, same bar length (common practice): 4/4 ↔ 2/2, 3/4 ↔ 6/8.
+ * @example rebarTwins({ beatsPerBar: 3, beatUnit: 4 }) // [{ beatsPerBar: 6, beatUnit: 8 }]
+ */
 export function rebarTwins(meter: Meter): Meter[] {
   const sig = `${meter.beatsPerBar}/${meter.beatUnit}`;
   const twins: Record<string, Meter[]> = {

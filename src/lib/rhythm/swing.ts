@@ -10,12 +10,18 @@
 import { barLength, type Meter, type Swing } from "./document";
 import { Fraction, q, type RationalInput } from "./rational";
 
-/** True when swing leaves every position where it is. */
+/**
+ * True when swing leaves every position where it is.
+ * @example isStraight({ unit: "1/8", ratio: 0.5 }) // true
+ */
 export function isStraight(swing: Swing): boolean {
   return swing.ratio === 0.5;
 }
 
-/** Length of one swing pair in whole notes (twice the swing unit). */
+/**
+ * Length of one swing pair in whole notes (twice the swing unit).
+ * @example swingPair({ unit: "1/8", ratio: 2 / 3 }).toFraction() // "1/4"
+ */
 export function swingPair(swing: Swing): Fraction {
   return q(swing.unit).mul(2);
 }
@@ -49,7 +55,10 @@ export function swingPosition(at: RationalInput, swing: Swing, meter: Meter): nu
   return start.valueOf() + swingInBar(a.sub(start), swing, bar);
 }
 
-/** True when every swing pair sits wholly inside a bar, so pairs fall at the same places in every bar. */
+/**
+ * True when every swing pair sits wholly inside a bar, so pairs fall at the same places in every bar.
+ * @example swingTilesBar({ unit: "1/8", ratio: 2 / 3 }, { beatsPerBar: 7, beatUnit: 8 }) // false
+ */
 export function swingTilesBar(swing: Swing, meter: Meter): boolean {
   return barLength(meter).div(swingPair(swing)).d === 1n;
 }

@@ -55,7 +55,10 @@ export function analyzeTaps(times: readonly number[], window = DEFAULT_WINDOW): 
   };
 }
 
-/** The plain word for a relative spread. */
+/**
+ * The plain word for a relative spread.
+ * @example steadinessWord(0.04) // "fairly steady"
+ */
 export function steadinessWord(variation: number): Steadiness {
   if (variation <= STEADINESS_LIMITS.steady) return "steady";
   if (variation <= STEADINESS_LIMITS.fairlySteady) return "fairly steady";

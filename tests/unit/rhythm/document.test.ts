@@ -1,3 +1,10 @@
+/**
+ * The groove document. Sources: Tactus's own document rules (the README's "Groove document" section: exact
+ * rationals, positions inside the groove and on the grid, durations > 0, MIDI pitches 0–127, known kit
+ * pieces, grids that divide the bar, sections that tile the bars); MIDI 1.0 (7-bit note numbers and
+ * velocities); General MIDI Level 1 percussion key map (MMA RP003) for the kit's GM notes.
+ */
+import { fc, test } from "@fast-check/vitest";
 import { describe, expect, it } from "vitest";
 import { emptyGroove, parseGroove, playOrder, KIT_PIECES, KIT_PIECE_IDS } from "../../../src/lib/rhythm";
 
@@ -40,6 +47,42 @@ describe("groove document", () => {
       expect(hit!.message).toMatch(message);
     }
   });
+
+  it.each([
+    [{ bars: 0 }, "bars", "a groove has 1 to 4096 bars"],
+    [{ meter: { beatsPerBar: 0, beatUnit: 4 } }, "meter.beatsPerBar", "beats per bar must be from 1 to 32"],
+    [{ swing: { unit: "1/8", ratio: 0.9 } }, "swing.ratio", "swing must be between 0.5 (straight) and 0.75"],
+    [{ keys: { notes: [{ at: "0", duration: "1/4", pitch: 60, velocity: 0 }], splitPitch: 60 } }, "keys.notes.0.velocity", "velocity must be a whole number from 1 to 127 (MIDI note-on velocity)"],
+    [{ sections: [{ name: "A", startBar: 0, bars: 1, repeats: 65 }] }, "sections.0.repeats", "a section plays from 1 to 64 times"],
+    [{ tempo: { bpm: "fast", beatNote: "1/4" } }, "tempo.bpm", "must be a rational such as 3/16 or 2"],
+    [{ schemaVersion: 2 }, "schemaVersion", "schemaVersion must be 1"],
+  ])("says what is wrong with %j in plain words", (patch, path, message) => {
+    const r = parseGroove({ ...base(), ...patch });
+    expect(r.ok ? [] : r.issues).toContainEqual({ path, message });
+  });
+
+  it("answers a malformed document with issues, never by throwing (the musical checks wait for a valid shape)", () => {
+    // A tempo that is not a rational used to reach the musical checks and throw inside fraction.js.
+    const r = parseGroove({ ...base(), tempo: { bpm: "abc", beatNote: "1/4" }, grid: { step: "0" } });
+    expect(r.ok).toBe(false);
+    if (!r.ok) expect(r.issues.map((i) => i.path)).toEqual(["tempo.bpm", "grid.step"]);
+  });
+
+  test.prop([fc.anything()])("never throws on any JSON-like input", (input) => {
+    expect(() => parseGroove(input)).not.toThrow();
+  });
+
+  test.prop([fc.constantFrom("tempo.bpm", "tempo.beatNote", "grid.step", "swing.unit", "keys.notes.0.at", "keys.notes.0.duration", "kit.lanes.0.hits.0.at", "bars", "kit.lanes", "meter.grouping"), fc.anything()])(
+    "never throws when one field of a valid document is replaced by anything",
+    (path, junk) => {
+      const doc = structuredClone(base()) as Record<string, unknown>;
+      const keys = path.split(".");
+      let at: Record<string, unknown> = doc;
+      for (const k of keys.slice(0, -1)) at = at[k] as Record<string, unknown>;
+      at[keys[keys.length - 1]!] = junk;
+      expect(() => parseGroove(doc)).not.toThrow();
+    },
+  );
 
   it("plays sections in order with their repeats", () => {
     const r = parseGroove({

@@ -18,7 +18,10 @@ interface Beamable {
 
 const EIGHTH = NOTE_TYPES.indexOf("eighth");
 
-/** True for values that carry a flag or beam (an eighth or shorter). */
+/**
+ * True for values that carry a flag or beam (an eighth or shorter).
+ * @example isBeamable({ type: "eighth", dots: 0 }) // true; a quarter: false
+ */
 export function isBeamable(value: NoteValue): boolean {
   return NOTE_TYPES.indexOf(value.type) >= EIGHTH;
 }

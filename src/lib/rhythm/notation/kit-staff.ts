@@ -56,7 +56,10 @@ export function staffIndex(step: Step, octave: number): number {
   return octave * 7 + STEPS.indexOf(step);
 }
 
-/** The voice a piece is written in: hands up (voice 1), feet down (voice 2). */
+/**
+ * The voice a piece is written in: hands up (voice 1), feet down (voice 2).
+ * @example kitVoice("kick") // "down"
+ */
 export function kitVoice(piece: KitPieceId): "up" | "down" {
   const limb: Limb = KIT_PIECES[piece].limb;
   return limb === "foot" ? "down" : "up";

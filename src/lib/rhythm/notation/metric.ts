@@ -58,7 +58,10 @@ export function makeMetric(meter: MeterLike, D: number): Metric {
   return { barTicks, groups, middle, beamUnits, compound: groups.some((g) => !g.binary) };
 }
 
-/** Index of the group containing tick t (0 ≤ t < barTicks). */
+/**
+ * Index of the group containing tick t (0 ≤ t < barTicks).
+ * @example groupIndexAt(makeMetric({ beatsPerBar: 6, beatUnit: 8 }, 64), 30) // 1 (the second dotted quarter)
+ */
 export function groupIndexAt(metric: Metric, t: number): number {
   const gs = metric.groups;
   for (let i = gs.length - 1; i >= 0; i--) if (gs[i]!.start <= t) return i;

@@ -20,19 +20,29 @@ export interface Timebase {
   rational(ticks: number): Rational;
 }
 
-/** The odd part of a positive integer (24 → 3). */
+/**
+ * The odd part of a positive integer.
+ * @example oddPart(24) // 3
+ */
 export function oddPart(n: number): number {
   while (n % 2 === 0 && n > 0) n /= 2;
   return n;
 }
 
-/** Largest power of two strictly below n (3 → 2, 5 → 4), 1 for n ≤ 2. */
+/**
+ * Largest power of two strictly below n, 1 for n ≤ 2: the `normal` of an n-tuplet.
+ * @example powerOfTwoBelow(5) // 4 (a quintuplet is 5:4)
+ */
 export function powerOfTwoBelow(n: number): number {
   let p = 1;
   while (p * 2 < n) p *= 2;
   return p;
 }
 
+/**
+ * True for 1, 2, 4, 8, …: group lengths that are plain note values.
+ * @example isPowerOfTwo(3) // false
+ */
 export function isPowerOfTwo(n: number): boolean {
   return Number.isInteger(n) && n > 0 && (n & (n - 1)) === 0;
 }

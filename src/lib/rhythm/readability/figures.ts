@@ -139,7 +139,10 @@ function onsetNotes(doc: GrooveDocument) {
 
 const sortedUnique = (xs: Iterable<number>) => [...new Set(xs)].sort((a, b) => a - b);
 
-/** Extract what the figures need from a document. */
+/**
+ * Extract what the figures need from a document.
+ * @example figureInput(toggleHit(emptyGroove(), "snare", "1/4")).onsets // { hands: [4], feet: [], keys: [] }
+ */
 export function figureInput(doc: GrooveDocument): FigureInput {
   const codec = new TickCodec(doc.grid.step);
   const toStep = (at: Rational) => codec.toTicks(at);

@@ -62,6 +62,7 @@ export function displace(doc: GrooveDocument, by: RationalInput, mode: DisplaceM
  * (only possible when notes of one pitch overlap). "trim" resolves that case by keeping the longer note.
  *
  * The output is normalised (hits and notes sorted as `normalizeGroove` does).
+ * @example displaceWithReport(song, "-1/8", "pad").addedBars // { before: 1, after: 0 }: a pickup bar
  */
 export function displaceWithReport(doc: GrooveDocument, by: RationalInput, mode: DisplaceMode = "rotate"): DisplaceReport {
   const shift = q(by);

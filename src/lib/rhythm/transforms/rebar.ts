@@ -21,7 +21,7 @@ import { checkBars, checkBpm, mixed, scaleSections, whole } from "./common";
  */
 export function rebar(doc: GrooveDocument, meter: Meter): GrooveDocument {
   const parsed = meterSchema.safeParse(meter);
-  if (!parsed.success) throw new RhythmError(`invalid meter: ${parsed.error.issues.map((i) => i.message).join("; ")}`);
+  if (!parsed.success) throw new RhythmError(`invalid meter: ${parsed.error.issues.map((i) => `${i.path.join(".") || "meter"}: ${i.message}`).join("; ")}`);
   const m: Meter = parsed.data;
   if (m.grouping && m.grouping.reduce((a, b) => a + b, 0) !== m.beatsPerBar)
     throw new RhythmError(`grouping ${m.grouping.join("+")} does not add up to ${m.beatsPerBar} beats`);
