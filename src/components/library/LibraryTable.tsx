@@ -8,6 +8,8 @@ import { useEffect, useMemo, useState } from "react";
 import type { GrooveListParams, GrooveSummary } from "../../lib/client/api";
 import { useGrooves, useRestoreGroove } from "../../lib/client/queries";
 import { quietButtonClass } from "../account/fields";
+import DownloadMenu from "../exchange/DownloadMenu";
+import ImportMidi from "../exchange/ImportMidi";
 import NewGrooveForm from "./NewGrooveForm";
 import { withQuery } from "./QueryProvider";
 
@@ -116,6 +118,9 @@ function LibraryTable({ signedIn, userId, query: initialQuery = {} }: { signedIn
       col.accessor("updatedAt", { header: "Updated", cell: (c) => <span className="num whitespace-nowrap text-sm text-ink-soft">{when(c.getValue())}</span> }),
       col.accessor("createdAt", { header: "Created", cell: (c) => <span className="num whitespace-nowrap text-sm text-ink-soft">{when(c.getValue())}</span> }),
       ...(trash
+        ? []
+        : [col.display({ id: "download", header: () => <span className="sr-only">Download</span>, cell: (c) => (c.row.original.latestVersion ? <DownloadMenu grooveId={c.row.original.id} title={c.row.original.title} /> : null) })]),
+      ...(trash
         ? [
             col.display({
               id: "restore",
@@ -163,9 +168,12 @@ function LibraryTable({ signedIn, userId, query: initialQuery = {} }: { signedIn
           <p className="text-ink-soft">{query.isPending ? "Loading…" : `${total.toLocaleString("en-GB")}${capped ? "+" : ""} groove${total === 1 && !capped ? "" : "s"}`}</p>
         </div>
         {signedIn && (
-          <button type="button" className="rounded-lg bg-ink px-4 py-2 font-medium text-surface hover:bg-brass" onClick={() => setShowNew((v) => !v)} aria-expanded={showNew}>
-            New groove
-          </button>
+          <div className="flex flex-wrap gap-2">
+            <ImportMidi />
+            <button type="button" className="rounded-lg bg-ink px-4 py-2 font-medium text-surface hover:bg-brass" onClick={() => setShowNew((v) => !v)} aria-expanded={showNew}>
+              New groove
+            </button>
+          </div>
         )}
       </div>
       {showNew && <NewGrooveForm onCancel={() => setShowNew(false)} />}
