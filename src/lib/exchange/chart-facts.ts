@@ -3,7 +3,7 @@
  * Note names are the common American ones ("quarter note"), the usual words on charts in English.
  */
 import type { GrooveDocument } from "../rhythm/document";
-import { beatLengths, isCompound } from "../rhythm/meter";
+import { beatLengths } from "../rhythm/meter";
 import { noteValueOf } from "../rhythm/notation/durations";
 import { q } from "../rhythm/rational";
 
@@ -32,16 +32,14 @@ export function tempoText(tempo: GrooveDocument["tempo"]): string {
 }
 
 /**
- * The meter with its grouping when it is not the plain one.
+ * The meter, with the grouping of its beats when the groups differ (how the notation beams it).
  * @example meterText({ beatsPerBar: 7, beatUnit: 8, grouping: [2, 2, 3] }) // "7/8 (2+2+3)"
+ * @example meterText({ beatsPerBar: 6, beatUnit: 8 }) // "6/8"
  */
 export function meterText(meter: GrooveDocument["meter"]): string {
   const base = `${meter.beatsPerBar}/${meter.beatUnit}`;
-  if (meter.grouping && meter.grouping.length > 1 && (meter.beatUnit >= 8 || !isCompound(meter))) {
-    const plain = beatLengths({ beatsPerBar: meter.beatsPerBar, beatUnit: meter.beatUnit }).map((f) => Number(f.mul(meter.beatUnit).valueOf()));
-    if (plain.join("+") !== meter.grouping.join("+")) return `${base} (${meter.grouping.join("+")})`;
-  }
-  return base;
+  const groups = beatLengths(meter).map((f) => f.mul(meter.beatUnit).valueOf());
+  return groups.some((g) => g !== groups[0]) ? `${base} (${groups.join("+")})` : base;
 }
 
 /** "Swung eighths, 2:1", or null when straight. */
