@@ -1,3 +1,9 @@
+/**
+ * Edit operations. Sources: common practice (a 4/4 bar holds 16 sixteenths; counting "1 e and a"),
+ * @tonaljs/duration-value as an oracle for note values, MIDI 1.0 (7-bit note numbers and velocities); the rest
+ * checks Tactus's own editing rules (editing.ts: nothing is dropped silently, sections keep tiling the bars,
+ * every edit returns a valid document).
+ */
 import { describe, expect, it } from "vitest";
 import { fc, test } from "@fast-check/vitest";
 import { fraction as tonalFraction } from "@tonaljs/duration-value";

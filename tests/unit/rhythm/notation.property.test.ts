@@ -12,6 +12,8 @@
  *   those of the document;
  * - rests are never dotted in simple time (OpenLearn 2016, 4.2, via the project's reference notes);
  * - `spellBars` gives the same bars as `spellGroove`.
+ * Apart from the rests rule, these are the notation model's own promises (notation/model.ts) and common
+ * practice (beams join flagged notes only; a tie joins two notes of the same pitch).
  */
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";

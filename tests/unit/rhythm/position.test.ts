@@ -1,6 +1,8 @@
 /**
  * Meter helpers and positions in words. Sources: common practice for counting ("1 e and a" for sixteenths,
- * "1 trip let" for triplets, compound meters counted in dotted beats, 7/8 as 2+2+3 counted by group).
+ * "1 trip let" for triplets, compound meters counted in dotted beats, 7/8 as 2+2+3 counted by group); the
+ * default groupings follow The Open University, "An introduction to music theory" (OpenLearn 2016), 3.6, and
+ * E. Gould, "Behind Bars" (2011, from memory), as meter.ts says.
  */
 import { describe, expect, it } from "vitest";
 import {

@@ -1,3 +1,9 @@
+/**
+ * Readability figures of a document. Sources, named beside each check: Longuet-Higgins & Lee (1984) and
+ * Gómez, Melvin, Rappaport & Toussaint (2005) for the syncopation measures (REFERENCES.md); common practice
+ * for the rock beat (snare on 2 and 4, kick on 1) and the backbeat on the weak beats; the usual tempo range
+ * (60–180 bpm) from memory; the notation counts follow Tactus's own spelling rules (notation/spell.ts).
+ */
 import { fc, test } from "@fast-check/vitest";
 import { describe, expect, it } from "vitest";
 import {

@@ -1,3 +1,9 @@
+/**
+ * The reading finder. Sources: common practice (a rock beat has the snare on 2 and 4 and the kick on 1; the
+ * re-barring twins 4/4 ↔ 2/2 and 3/4 ↔ 6/8; double and half time keep the sound); the usual tempo range
+ * (60–180 bpm) from memory; the rest checks Tactus's own documented ranking (readings.ts: score, simplicity,
+ * id) and its promise that every returned reading is proven equivalent.
+ */
 import { fc, test } from "@fast-check/vitest";
 import { describe, expect, it, vi } from "vitest";
 import {

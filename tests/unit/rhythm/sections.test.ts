@@ -1,3 +1,8 @@
+/**
+ * Song form. Sources: common practice (form letters A, B, C… for the parts of a song; a section played n
+ * times in a row); the rest checks Tactus's own song-form rules (document.ts and sections.ts: sections follow
+ * each other without gaps, cover every bar, and play in order with their repeats).
+ */
 import { describe, expect, it } from "vitest";
 import { fc, test } from "@fast-check/vitest";
 import { RhythmError, emptyGroove, parseGroove, playOrder, type GrooveDocument, type Section } from "../../../src/lib/rhythm/document";

@@ -1,3 +1,8 @@
+/**
+ * Tap tempo. Sources: common practice (bpm = 60,000 / milliseconds per beat); MIREX audio tempo estimation's
+ * "Accuracy 1" tolerance of 4 % (Gouyon et al. 2006, REFERENCES.md); population standard deviation (textbook
+ * statistics); the steadiness limits and the reset after a pause are Tactus's own choices (tap-tempo.ts).
+ */
 import { describe, expect, it } from "vitest";
 import { analyzeTaps, createTapTempo, roundBpm, steadinessWord } from "../../../src/lib/rhythm/tap-tempo";
 
