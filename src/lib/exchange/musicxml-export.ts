@@ -207,7 +207,8 @@ function identification(xml: Writer, options: MusicXmlOptions): void {
   xml.up();
 }
 
-function writePart(ctx: Ctx, id: string, kind: "kit" | "keys", tempoHere: boolean): string {
+/** One part; `first`: the top part, which carries the tempo, rehearsal marks and repeat counts. */
+function writePart(ctx: Ctx, id: string, kind: "kit" | "keys", first: boolean): string {
   const { score } = ctx;
   const starts = new Map(score.sections.map((s) => [s.startBar, s]));
   const ends = new Map(score.sections.map((s) => [s.startBar + s.bars - 1, s]));
@@ -221,8 +222,8 @@ function writePart(ctx: Ctx, id: string, kind: "kit" | "keys", tempoHere: boolea
       piece(3, (w) => {
         if (start && start.repeats > 1) w.ele("barline", { location: "left" }).ele("bar-style").txt("heavy-light").up().ele("repeat", { direction: "forward" }).up().up();
         if (bar.index === 0) attributes(w, ctx, kind);
-        if (start && kind === "kit") w.ele("direction", { placement: "above" }).ele("direction-type").ele("rehearsal").txt(start.name).up().up().up();
-        if (bar.index === 0 && tempoHere) tempo(w, ctx);
+        if (start && first) w.ele("direction", { placement: "above" }).ele("direction-type").ele("rehearsal").txt(start.name).up().up().up();
+        if (bar.index === 0 && first) tempo(w, ctx);
       }),
     );
     // The notes depend on the bar's events only: identical bars share one written body.
@@ -244,7 +245,7 @@ function writePart(ctx: Ctx, id: string, kind: "kit" | "keys", tempoHere: boolea
     if (end && end.repeats > 1) {
       out.push(
         piece(3, (w) => {
-          if (kind === "kit") w.ele("direction", { placement: "above" }).ele("direction-type").ele("words").txt(`${end.repeats}×`).up().up().up();
+          if (first) w.ele("direction", { placement: "above" }).ele("direction-type").ele("words").txt(`${end.repeats}×`).up().up().up();
           w.ele("barline", { location: "right" }).ele("bar-style").txt("light-heavy").up().ele("repeat", { direction: "backward", times: String(end.repeats) }).up().up();
         }),
       );

@@ -332,6 +332,14 @@ describe("tuplets, tempo, swing, song form", () => {
     expect(m[2].barline).toBeUndefined();
   });
 
+  it("a keys-only groove carries the tempo and the rehearsal marks in its one part", () => {
+    const doc = groove({ bars: 2, sections: [{ name: "Intro", startBar: 0, bars: 2, repeats: 2 }], kit: { lanes: [] }, keys: { notes: [{ at: "0", duration: "1/2", pitch: 60, velocity: 80 }], splitPitch: 60 } });
+    const m = parse(exportMusicXml(doc, { date: DATE })).part[0].measure;
+    const kinds = m[0].direction.map((d: any) => Object.keys(d["direction-type"])[0]);
+    expect(kinds).toEqual(["rehearsal", "metronome"]);
+    expect(m[1].direction[0]["direction-type"].words).toBe("2×");
+  });
+
   it("title and credits are written when given", () => {
     const x = parse(exportMusicXml(emptyGroove(), { title: "Salt Road", date: DATE, credits: { composer: "The Lamplight Ferry", transcriber: "Ines Varga" } }));
     expect(x.work["work-title"]).toBe("Salt Road");
