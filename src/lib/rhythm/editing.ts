@@ -9,8 +9,7 @@
  * Positions are rational whole-note strings, as in the document. Bars are 0-based here; labels for people
  * (see `describeAt`) are 1-based.
  */
-import type { Articulation, Dynamic, KitPieceId } from "./kit";
-import { DYNAMICS, KIT_PIECES, KIT_ROW_ORDER } from "./kit";
+import { DYNAMICS, KIT_PIECES, KIT_ROW_ORDER, type Articulation, type Dynamic, type KitPieceId } from "./kit";
 import {
   LIMITS,
   RhythmError,
