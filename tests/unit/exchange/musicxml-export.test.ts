@@ -113,6 +113,7 @@ describe("a parsed export has, bar by bar, the durations the core spelled", () =
   it.each(cases.map((doc, i) => [i, doc] as const))("groove %i", (_, doc) => {
     const score = spellGroove(doc);
     const xml = parse(exportMusicXml(doc, { date: DATE }));
+    const where = (b: number, v: string) => `bar ${b + 1}, voice ${v}, groove ${JSON.stringify(doc)}`;
     const divisions = musicXmlDivisions(score);
     const parts: any[] = xml.part;
     const kit = parts.find((p) => p["@id"] === "P1");
@@ -124,8 +125,8 @@ describe("a parsed export has, bar by bar, the durations the core spelled", () =
         const m = kit.measure[b];
         expect(m["@number"]).toBe(String(b + 1));
         const notes = m.note ?? [];
-        expect(written(notes, "1")).toEqual(spelled(bar.kit.up, divisions, bar.length));
-        expect(written(notes, "2")).toEqual(spelled(bar.kit.down, divisions, bar.length));
+        expect(written(notes, "1"), where(b, "1")).toEqual(spelled(bar.kit.up, divisions, bar.length));
+        expect(written(notes, "2"), where(b, "2")).toEqual(spelled(bar.kit.down, divisions, bar.length));
         for (const v of ["1", "2"]) {
           const sum = written(notes, v).reduce((a, n) => a + n.duration, 0);
           if (sum > 0) expect(sum, `kit voice ${v} of bar ${b + 1} fills the bar exactly`).toBe(barDivs);
@@ -134,8 +135,8 @@ describe("a parsed export has, bar by bar, the durations the core spelled", () =
       }
       if (keys && bar.keys) {
         const notes = keys.measure[b].note ?? [];
-        expect(written(notes, "1")).toEqual(spelled(bar.keys.treble, divisions, bar.length));
-        expect(written(notes, "5")).toEqual(spelled(bar.keys.bass, divisions, bar.length));
+        expect(written(notes, "1"), where(b, "treble")).toEqual(spelled(bar.keys.treble, divisions, bar.length));
+        expect(written(notes, "5"), where(b, "bass")).toEqual(spelled(bar.keys.bass, divisions, bar.length));
       }
     });
   });
