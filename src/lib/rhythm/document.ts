@@ -27,6 +27,18 @@ export const LIMITS = {
   maxBpm: 1000,
 } as const;
 
+/** Velocity of a keys note that does not give one (MIDI note-on velocity, a moderate forte). */
+export const DEFAULT_KEY_VELOCITY = 90;
+
+/**
+ * True when a tempo in bpm is inside the document's limits (LIMITS.minBpm–maxBpm): the one check that
+ * validation, tempo edits and renotation share.
+ * @example tempoInRange(2000) // false
+ */
+export function tempoInRange(bpm: number): boolean {
+  return bpm >= LIMITS.minBpm && bpm <= LIMITS.maxBpm;
+}
+
 const BEAT_UNITS = [1, 2, 4, 8, 16, 32] as const;
 
 // Plain-words messages for the range checks (zod's defaults name a number, not what it means).
@@ -109,7 +121,7 @@ const keyNoteSchema = z.object({
   duration: positiveRational,
   /** MIDI note number, 60 = middle C. */
   pitch: z.number().int(PITCH_MESSAGE).min(0, PITCH_MESSAGE).max(127, PITCH_MESSAGE),
-  velocity: z.number().int(VELOCITY_MESSAGE).min(1, VELOCITY_MESSAGE).max(127, VELOCITY_MESSAGE).default(90),
+  velocity: z.number().int(VELOCITY_MESSAGE).min(1, VELOCITY_MESSAGE).max(127, VELOCITY_MESSAGE).default(DEFAULT_KEY_VELOCITY),
   /**
    * Loops only: this note (at 0) continues the note of the same pitch and velocity that ends where the groove
    * ends, so when the loop repeats they are one note held across the seam. Written by `displace` when a
@@ -165,7 +177,7 @@ function checkGroove(doc: z.output<typeof grooveObjectSchema>, ctx: Ctx): void {
       issue(["meter", "grouping"], `grouping adds up to ${sum}, but the bar has ${doc.meter.beatsPerBar} beats`);
   }
   const bpm = q(doc.tempo.bpm).valueOf();
-  if (bpm < LIMITS.minBpm || bpm > LIMITS.maxBpm)
+  if (!tempoInRange(bpm))
     issue(["tempo", "bpm"], `tempo ${bpm} bpm is outside ${LIMITS.minBpm}–${LIMITS.maxBpm}`);
   if (bar.div(step).d !== 1n)
     issue(["grid", "step"], `a grid step of ${doc.grid.step} does not divide a ${doc.meter.beatsPerBar}/${doc.meter.beatUnit} bar`);

@@ -11,11 +11,13 @@
  */
 import { DYNAMICS, KIT_PIECES, KIT_ROW_ORDER, type Articulation, type Dynamic, type KitPieceId } from "./kit";
 import {
+  DEFAULT_KEY_VELOCITY,
   LIMITS,
   RhythmError,
   barLength,
   grooveLength,
   parseGroove,
+  tempoInRange,
   type GrooveDocument,
   type KeyNote,
   type KitHit,
@@ -365,7 +367,7 @@ export function addKeyNote(
   const base = { ...doc, keys: { ...doc.keys, notes: kept } };
   const limit = nextStartOrEnd(base, note.pitch, at).sub(at);
   const duration = snapDuration(doc, q(note.duration ?? doc.grid.step), limit);
-  const added: KeyNote = { at: atKey, duration: fmt(duration), pitch: note.pitch, velocity: note.velocity ?? 90 };
+  const added: KeyNote = { at: atKey, duration: fmt(duration), pitch: note.pitch, velocity: note.velocity ?? DEFAULT_KEY_VELOCITY };
   return { ...doc, keys: { ...doc.keys, notes: sortNotes([...kept, added]) } };
 }
 
@@ -787,7 +789,7 @@ export function changeTempo(doc: GrooveDocument, tempo: { bpm?: RationalInput; b
     beatNote: tempo.beatNote === undefined ? doc.tempo.beatNote : fmt(tempo.beatNote),
   };
   const bpm = q(next.bpm).valueOf();
-  if (!(bpm >= LIMITS.minBpm && bpm <= LIMITS.maxBpm))
+  if (!tempoInRange(bpm))
     throw new RhythmError(`tempo ${bpm} bpm is outside ${LIMITS.minBpm}–${LIMITS.maxBpm}`);
   if (q(next.beatNote).compare(0) <= 0) throw new RhythmError("the beat note must be greater than 0");
   return { doc: { ...doc, tempo: next }, dropped: [], adjusted: [] };

@@ -1,5 +1,5 @@
 /** Shared pieces of the renotation transforms (internal). */
-import { LIMITS, RhythmError, type Section } from "../document";
+import { LIMITS, RhythmError, tempoInRange, type Section } from "../document";
 import { Fraction, q, type RationalInput } from "../rational";
 
 /** A rational as a mixed number for messages: 3/2 → "1 1/2". */
@@ -20,8 +20,7 @@ export function whole(x: Fraction, explain: (x: Fraction) => string): number {
 
 /** Throws when a tempo falls outside the document limits. */
 export function checkBpm(bpm: Fraction, why: string): void {
-  const v = bpm.valueOf();
-  if (v < LIMITS.minBpm || v > LIMITS.maxBpm)
+  if (!tempoInRange(bpm.valueOf()))
     throw new RhythmError(`${why} gives ${mixed(bpm)} bpm, outside ${LIMITS.minBpm}–${LIMITS.maxBpm}`);
 }
 
