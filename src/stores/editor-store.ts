@@ -201,7 +201,7 @@ export type EditorStore = StoreApi<EditorState> & { temporal: StoreApi<TemporalS
 export const HISTORY_LIMIT = 500;
 
 type Gesture =
-  | { kind: "paint"; pre: GrooveDocument; piece: KitPieceId; from: string; mode: "on" | "off" }
+  | { kind: "paint"; pre: GrooveDocument; piece: KitPieceId; from: string; to: string; mode: "on" | "off" }
   | { kind: "note"; pre: GrooveDocument; base: GrooveDocument; pitch: number; start: string; startCol: number; created: boolean; moved: boolean };
 
 /**
@@ -289,13 +289,17 @@ export function createEditorStore(init: EditorInit): EditorStore {
             const from = at(col);
             const mode = hitAt(pre, piece, from) ? "off" : "on";
             history().getState().pause();
-            gesture = { kind: "paint", pre, piece, from, mode };
+            gesture = { kind: "paint", pre, piece, from, to: from, mode };
             edit((d) => paintRun(d, piece, from, from, mode));
           },
           paintTo(col) {
             const g = gesture;
             if (g?.kind !== "paint") return;
             const to = at(Math.max(0, Math.min(col, stepCount(g.pre) - 1)));
+            // The pointer passing over the hit just drawn (or back and forth in one cell) changes nothing:
+            // keep the document object, so the notation is not spelled and drawn again.
+            if (to === g.to) return;
+            g.to = to;
             set({ doc: paintRun(g.pre, g.piece, g.from, to, g.mode) });
           },
 
