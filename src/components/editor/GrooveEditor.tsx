@@ -84,11 +84,19 @@ export default function GrooveEditor(props: GrooveEditorProps) {
   );
 }
 
+/**
+ * The live notation reads the document and playhead itself, so an edit or a playhead step re-renders this
+ * part and not the whole editor shell (panels, transport, grid frame).
+ */
+function EditorNotation() {
+  const doc = useEditor((s) => s.doc);
+  const playhead = useEditor((s) => s.playhead);
+  return <NotationPreview doc={doc} playhead={playhead} label="Notation of this groove" />;
+}
+
 function EditorShell({ draft, onDiscard }: { draft: DraftInfo; onDiscard: () => void }) {
   const actions = useActions();
   const { canUndo, canRedo } = useHistory();
-  const doc = useEditor((s) => s.doc);
-  const playhead = useEditor((s) => s.playhead);
   const tapRef = useRef<TapHandle | null>(null);
   const menuRef = useRef<(() => void) | null>(null);
   const rootRef = useRef<HTMLDivElement>(null);
@@ -135,7 +143,7 @@ function EditorShell({ draft, onDiscard }: { draft: DraftInfo; onDiscard: () => 
       <NoticeBar />
       <GridArea menuRef={menuRef} />
       <BarTools />
-      <NotationPreview doc={doc} playhead={playhead} label="Notation of this groove" />
+      <EditorNotation />
       <div className="tx-panels">
         <MeterTempoPanel />
         <SectionsPanel />
