@@ -36,6 +36,7 @@ import {
 } from "../../../src/lib/rhythm/editing";
 import { emptyGroove, parseGroove, type GrooveDocument } from "../../../src/lib/rhythm/document";
 import { KIT_PIECE_IDS } from "../../../src/lib/rhythm/kit";
+import { valid } from "./grooves";
 
 /** Duration value of a note name as "n/d" whole notes, from @tonaljs/duration-value (an outside oracle). */
 const tonal = (name: string) => {
@@ -43,11 +44,6 @@ const tonal = (name: string) => {
   return `${n}/${d}`;
 };
 
-const valid = (doc: GrooveDocument) => {
-  const r = parseGroove(doc);
-  expect(r.ok ? [] : r.issues).toEqual([]);
-  return doc;
-};
 
 /** A two-bar 4/4 groove: hi-hat eighths, snare on 2 and 4, kick on 1 and the "and" of 3, one keys chord. */
 function rockBeat(): GrooveDocument {

@@ -7,11 +7,9 @@
 import { fc, test } from "@fast-check/vitest";
 import { describe, expect, it } from "vitest";
 import {
-  assertGroove,
   barLength,
   countNotation,
   displace,
-  emptyGroove,
   figureInput,
   figuresFrom,
   q,
@@ -20,31 +18,11 @@ import {
   metricalHierarchy,
   readabilityFigures,
   USUAL_TEMPO_RANGE,
-  type GrooveDocumentInput,
   type NotationScore,
 } from "../../../src/lib/rhythm";
 import { loopArb } from "./arbitraries";
+import { groove, hits, rockBeat } from "./grooves";
 
-type Lane = { piece: string; hits: { at: string }[] };
-const hits = (...at: string[]) => at.map((a) => ({ at: a }));
-
-function groove(patch: Partial<GrooveDocumentInput> & { lanes?: Lane[] }) {
-  const { lanes, ...rest } = patch;
-  return assertGroove({ ...emptyGroove(), ...(lanes ? { kit: { lanes } } : {}), ...rest });
-}
-
-/** One bar of 4/4 on a sixteenth grid: hi-hat eighths, snare on 2 and 4, kick on 1 and 3 (common practice rock beat). */
-const rockBeat = (shift = 0) => {
-  const at = (sixteenths: number) => `${(sixteenths + shift + 16) % 16}/16`;
-  return groove({
-    tempo: { bpm: "120", beatNote: "1/4" },
-    lanes: [
-      { piece: "hihat-closed", hits: hits(...[0, 2, 4, 6, 8, 10, 12, 14].map(at)) },
-      { piece: "snare", hits: hits(at(4), at(12)) },
-      { piece: "kick", hits: hits(at(0), at(8)) },
-    ],
-  });
-};
 
 describe("readability figures", () => {
   it("sees the backbeat on 2 and 4 and the kick on 1 in a plain rock beat", () => {
@@ -61,7 +39,7 @@ describe("readability figures", () => {
   });
 
   it("loses the backbeat and the downbeat kick when the same beat is displaced by an eighth", () => {
-    const f = readabilityFigures(rockBeat(2));
+    const f = readabilityFigures(rockBeat({ shift: 2 }));
     expect(f.backbeat.share).toBe(0);
     expect(f.downbeatKick.share).toBe(0);
     // Kick on the "and" of 1 and of 3 (pulses 2 and 10 of 16): each held over the next beat and half bar.

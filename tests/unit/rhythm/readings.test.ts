@@ -8,19 +8,18 @@ import { fc, test } from "@fast-check/vitest";
 import { describe, expect, it, vi } from "vitest";
 import {
   applySteps,
-  assertGroove,
   compareGrooves,
   displace,
-  emptyGroove,
   findReadings,
   rebarTwins,
   rescale,
   valueWords,
   type GrooveDocument,
-  type GrooveDocumentInput,
   type Transform,
 } from "../../../src/lib/rhythm";
 import { grooveArb, loopArb } from "./arbitraries";
+import { groove, rockBeat } from "./grooves";
+
 
 // The proof step is real (compareGrooves) unless a test asks it to reject some documents, to show that a
 // candidate failing the proof is never returned.
@@ -34,33 +33,9 @@ vi.mock("../../../src/lib/rhythm/equivalence", async (importOriginal) => {
   };
 });
 
-const hits = (...at: string[]) => at.map((a) => ({ at: a }));
-const groove = (patch: Partial<GrooveDocumentInput>) => assertGroove({ ...emptyGroove(), ...patch });
-
-/** Common practice rock beat: hi-hat eighths, snare on 2 and 4, kick on 1 and 3, at a given tempo and bar count. */
-function rockBeat(bpm = "120", bars = 1): GrooveDocument {
-  const each = (xs: string[]) => Array.from({ length: bars }, (_, b) => xs.map((x) => `${b}+${x}`)).flat();
-  const sum = (s: string) => {
-    const [bar, x] = s.split("+");
-    const [n, d] = x!.split("/").map(Number);
-    return `${Number(bar) * d! + n!}/${d}`;
-  };
-  return groove({
-    bars,
-    tempo: { bpm, beatNote: "1/4" },
-    kit: {
-      lanes: [
-        { piece: "hihat-closed", hits: hits(...each(["0/8", "1/8", "2/8", "3/8", "4/8", "5/8", "6/8", "7/8"]).map(sum)) },
-        { piece: "snare", hits: hits(...each(["1/4", "3/4"]).map(sum)) },
-        { piece: "kick", hits: hits(...each(["0/4", "2/4"]).map(sum)) },
-      ],
-    },
-  });
-}
-
 describe("applySteps", () => {
   it("replays serialised steps exactly as the transforms compose", () => {
-    const d = rockBeat("76", 2);
+    const d = rockBeat({ bpm: "76", bars: 2 });
     const steps: Transform[] = JSON.parse(
       JSON.stringify([
         { op: "rescale", factor: "2" },
@@ -97,7 +72,7 @@ describe("words", () => {
 
 describe("findReadings", () => {
   it("keeps a plain rock beat as written, and says why", () => {
-    const rs = findReadings(rockBeat("120", 2));
+    const rs = findReadings(rockBeat({ bpm: "120", bars: 2 }));
     expect(rs[0]!.id).toBe("asis");
     expect(rs[0]!.label).toBe("As written");
     expect(rs[0]!.steps).toEqual([]);
@@ -106,7 +81,7 @@ describe("findReadings", () => {
   });
 
   it("sorts by score, then simplicity, with unique ids and the score the sum of its parts", () => {
-    const rs = findReadings(rockBeat("120", 2), { limit: 40 });
+    const rs = findReadings(rockBeat({ bpm: "120", bars: 2 }), { limit: 40 });
     expect(rs.length).toBe(40);
     for (let i = 1; i < rs.length; i++) expect(rs[i]!.score).toBeGreaterThanOrEqual(rs[i - 1]!.score - 1e-9);
     expect(new Set(rs.map((r) => r.id)).size).toBe(rs.length);
@@ -114,20 +89,20 @@ describe("findReadings", () => {
   });
 
   it("says when a tempo leaves the usual range", () => {
-    const half = findReadings(rockBeat("100", 2), { factors: ["1/2"], limit: 1 })[0]!;
+    const half = findReadings(rockBeat({ bpm: "100", bars: 2 }), { factors: ["1/2"], limit: 1 })[0]!;
     expect(half.label).toMatch(/^Half time/);
     expect(half.reasons).toContain("tempo 50 is below the usual range (60–180)");
     expect(half.scoreParts.tempo).toBeGreaterThan(0);
   });
 
   it("skips candidates that cannot be written (halving three bars)", () => {
-    const rs = findReadings(rockBeat("120", 3), { limit: 500 });
+    const rs = findReadings(rockBeat({ bpm: "120", bars: 3 }), { limit: 500 });
     expect(rs.some((r) => r.steps.some((s) => s.op === "rescale" && s.factor === "1/2"))).toBe(false);
     expect(rs.some((r) => r.steps.some((s) => s.op === "rescale" && s.factor === "2"))).toBe(true);
   });
 
   it("with swing, displaces only by whole swing pairs (other moves would change the sound)", () => {
-    const swung = { ...rockBeat("120", 2), swing: { unit: "1/8", ratio: 2 / 3 } };
+    const swung = { ...rockBeat({ bpm: "120", bars: 2 }), swing: { unit: "1/8", ratio: 2 / 3 } };
     const rs = findReadings(swung, { limit: 500, rebar: false });
     const moves = rs.flatMap((r) => r.steps.filter((s) => s.op === "displace").map((s) => (s as { by: string }).by));
     expect(moves.length).toBeGreaterThan(0);
@@ -144,18 +119,18 @@ describe("findReadings", () => {
   it("never returns a candidate that fails the proof of equivalence", () => {
     proof.reject = (b) => b.tempo.bpm === "240";
     try {
-      const rs = findReadings(rockBeat("120", 2), { limit: 500 });
+      const rs = findReadings(rockBeat({ bpm: "120", bars: 2 }), { limit: 500 });
       expect(rs.length).toBeGreaterThan(0);
       expect(rs.some((r) => r.doc.tempo.bpm === "240")).toBe(false);
     } finally {
       proof.reject = null;
     }
-    expect(findReadings(rockBeat("120", 2), { limit: 500 }).some((r) => r.doc.tempo.bpm === "240")).toBe(true);
+    expect(findReadings(rockBeat({ bpm: "120", bars: 2 }), { limit: 500 }).some((r) => r.doc.tempo.bpm === "240")).toBe(true);
   });
 
   it("uses a pickup bar, not rotation, for a song form", () => {
     const song = groove({
-      ...rockBeat("120", 2),
+      ...rockBeat({ bpm: "120", bars: 2 }),
       sections: [
         { name: "Verse", startBar: 0, bars: 1, repeats: 2 },
         { name: "Chorus", startBar: 1, bars: 1, repeats: 1 },

@@ -22,12 +22,8 @@ import {
   splitSectionAt,
 } from "../../../src/lib/rhythm/sections";
 import { grooveArb } from "./arbitraries";
+import { valid } from "./grooves";
 
-const valid = (doc: GrooveDocument) => {
-  const r = parseGroove(doc);
-  expect(r.ok ? [] : r.issues).toEqual([]);
-  return doc;
-};
 const shape = (doc: GrooveDocument) => doc.sections.map((s) => `${s.name}:${s.startBar}+${s.bars}×${s.repeats}`);
 
 /** Eight bars of 4/4 with a snare on beat 2 of every bar, so bar moves can be followed by their content. */
