@@ -23,6 +23,8 @@ export const LIMITS = {
   maxHitsPerLane: 100_000,
   maxKeyNotes: 100_000,
   maxSections: 128,
+  maxSectionName: 40,
+  maxRepeats: 64,
   minBpm: 10,
   maxBpm: 1000,
 } as const;
@@ -45,7 +47,7 @@ const BEAT_UNITS = [1, 2, 4, 8, 16, 32] as const;
 const BEATS_MESSAGE = `beats per bar must be from 1 to ${LIMITS.maxBeatsPerBar}`;
 const BARS_MESSAGE = `a groove has 1 to ${LIMITS.maxBars} bars`;
 const SWING_MESSAGE = "swing must be between 0.5 (straight) and 0.75";
-const REPEATS_MESSAGE = "a section plays from 1 to 64 times";
+const REPEATS_MESSAGE = `a section plays from 1 to ${LIMITS.maxRepeats} times`;
 const VELOCITY_MESSAGE = "velocity must be a whole number from 1 to 127 (MIDI note-on velocity)";
 const PITCH_MESSAGE = "pitch must be a MIDI number from 0 to 127";
 
@@ -97,12 +99,12 @@ const swingSchema = z.object({
 });
 
 export const sectionSchema = z.object({
-  name: z.string().trim().min(1, "a section needs a name").max(40, "a section name has at most 40 characters"),
+  name: z.string().trim().min(1, "a section needs a name").max(LIMITS.maxSectionName, `a section name has at most ${LIMITS.maxSectionName} characters`),
   /** First bar of the section, 0-based. */
   startBar: z.number().int("a section starts on a whole bar").min(0, "a section cannot start before the first bar"),
   bars: z.number().int("a section has a whole number of bars").min(1, "a section has at least one bar"),
   /** How many times the section is played in a row. */
-  repeats: z.number().int("repeats must be a whole number").min(1, REPEATS_MESSAGE).max(64, REPEATS_MESSAGE),
+  repeats: z.number().int("repeats must be a whole number").min(1, REPEATS_MESSAGE).max(LIMITS.maxRepeats, REPEATS_MESSAGE),
 });
 
 const kitHitSchema = z.object({

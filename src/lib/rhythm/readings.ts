@@ -33,6 +33,7 @@
  * 0.7–0.9 s warm, 2–2.6 s on the first call (JIT warm-up); a 2-bar loop about 0.15–0.45 s.
  */
 import { barLength, normalizeGroove, type GrooveDocument, type Meter } from "./document";
+import { beatGrouping } from "./meter";
 import { compareGrooves, type Equivalence } from "./equivalence";
 import { Fraction, q, type Rational, type RationalInput } from "./rational";
 import {
@@ -130,7 +131,10 @@ export function rebarTwins(meter: Meter): Meter[] {
     "3/4": [{ beatsPerBar: 6, beatUnit: 8 }],
     "6/8": [{ beatsPerBar: 3, beatUnit: 4 }],
   };
-  return meter.grouping ? [] : (twins[sig] ?? []);
+  // A grouping of its own (7/8 as 3+2+2, 4/4 as 3+3+2 eighths…) has no common twin; the default one written
+  // out (6/8 as 3+3) is the plain meter.
+  const own = meter.grouping !== undefined && meter.grouping.join("+") !== beatGrouping({ beatsPerBar: meter.beatsPerBar, beatUnit: meter.beatUnit }).join("+");
+  return own ? [] : (twins[sig] ?? []);
 }
 
 function factorLabel(k: Fraction): string | null {

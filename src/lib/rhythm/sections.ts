@@ -12,9 +12,9 @@ import { LIMITS, RhythmError, sectionSchema, type GrooveDocument, type Section }
 import { insertBar } from "./editing";
 
 /** Longest section name the document accepts. */
-export const SECTION_NAME_MAX = 40;
+export const SECTION_NAME_MAX = LIMITS.maxSectionName;
 /** Most repeats of one section the document accepts. */
-export const SECTION_REPEATS_MAX = 64;
+export const SECTION_REPEATS_MAX = LIMITS.maxRepeats;
 
 /**
  * Form letters for new sections: A, B, C… (the usual way to label the parts of a form), then A2, B2…

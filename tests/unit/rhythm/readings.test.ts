@@ -66,6 +66,9 @@ describe("words", () => {
   it("offers the common re-barring of the same bar length (common practice: 4/4 ↔ 2/2, 3/4 ↔ 6/8)", () => {
     expect(rebarTwins({ beatsPerBar: 4, beatUnit: 4 })).toEqual([{ beatsPerBar: 2, beatUnit: 2 }]);
     expect(rebarTwins({ beatsPerBar: 6, beatUnit: 8 })).toEqual([{ beatsPerBar: 3, beatUnit: 4 }]);
+    // 6/8 with its usual 3+3 written out is still plain 6/8; an unusual grouping has no twin.
+    expect(rebarTwins({ beatsPerBar: 6, beatUnit: 8, grouping: [3, 3] })).toEqual([{ beatsPerBar: 3, beatUnit: 4 }]);
+    expect(rebarTwins({ beatsPerBar: 4, beatUnit: 4, grouping: [2, 2] })).toEqual([]);
     expect(rebarTwins({ beatsPerBar: 7, beatUnit: 8, grouping: [2, 2, 3] })).toEqual([]);
   });
 });
