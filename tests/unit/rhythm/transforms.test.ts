@@ -284,11 +284,9 @@ describe("compileSchedule on any valid document", () => {
       expect(e.time).toBeGreaterThanOrEqual(e.pass * passSeconds - 1e-9);
       expect(e.time).toBeLessThan((e.pass + 1) * passSeconds);
     });
-    const hits = d.kit.lanes.reduce((a, l) => a + l.hits.length, 0);
     const perPass = (kind: "kit" | "keys") => events.filter((e) => e.kind === kind).length;
     const barsPlayed = order.reduce((m, b) => m.set(b, (m.get(b) ?? 0) + 1), new Map<number, number>());
     const expectedHits = d.kit.lanes.flatMap((l) => l.hits).reduce((a, h) => a + (barsPlayed.get(Math.floor(q(h.at).div(barLength(d.meter)).valueOf())) ?? 0), 0);
     expect(perPass("kit")).toBe(expectedHits);
-    expect(hits >= 0).toBe(true);
   });
 });
