@@ -8,7 +8,7 @@
 import { useCallback, useEffect, useLayoutEffect, useMemo, useRef, useState } from "react";
 import { useShallow } from "zustand/react/shallow";
 import { gridColumns } from "../../stores/selectors";
-import { useEditor } from "./context";
+import { useEditor, useEditorStore } from "./context";
 import { KeysLane } from "./KeysLane";
 import { SectionStrip } from "./SectionStrip";
 import { StepGrid } from "./StepGrid";
@@ -63,17 +63,24 @@ export function GridArea({ menuRef }: { menuRef: React.MutableRefObject<(() => v
     return { first: inBeat[0]!.col, count: inBeat.length };
   }, [playhead, columns]);
 
+  const store = useEditorStore();
   const scrollRef = useRef<HTMLDivElement>(null);
   const cellProbe = useRef<HTMLDivElement>(null);
   const headProbe = useRef<HTMLDivElement>(null);
-  const [view, setView] = useState<View | null>(null);
+  /** The measured view and the cursor column at that time. */
+  const [view, setView] = useState<{ view: View; cursor: number } | null>(null);
   const frame = useRef(0);
   const measure = useCallback(() => {
     const el = scrollRef.current;
     if (!el) return;
     const next = { left: el.scrollLeft, width: el.clientWidth, cell: cellProbe.current?.offsetWidth ?? 0, head: headProbe.current?.offsetWidth ?? 0 };
-    setView((v) => (v && v.left === next.left && v.width === next.width && v.cell === next.cell && v.head === next.head ? v : next));
-  }, []);
+    const cursor = store.getState().cursor.col;
+    setView((v) =>
+      v && v.view.left === next.left && v.view.width === next.width && v.view.cell === next.cell && v.view.head === next.head && v.cursor === cursor
+        ? v
+        : { view: next, cursor },
+    );
+  }, [store]);
   useLayoutEffect(() => {
     measure();
     const el = scrollRef.current;
@@ -90,7 +97,13 @@ export function GridArea({ menuRef }: { menuRef: React.MutableRefObject<(() => v
 
   const cursorCol = useEditor((s) => s.cursor.col);
   const perBar = Math.max(1, columns.length / Math.max(1, bars));
-  const { first, last } = columnWindow(view, columns.length, perBar, cursorCol);
+  // The window grows at once to reach the cursor, but shrinks only when the view is measured again (on
+  // scroll or resize): a click that moves the cursor then never unmounts the columns the old cursor kept,
+  // which cost more than the edit itself.
+  const now = columnWindow(view?.view ?? null, columns.length, perBar, cursorCol);
+  const kept = columnWindow(view?.view ?? null, columns.length, perBar, view?.cursor ?? cursorCol);
+  const first = Math.min(now.first, kept.first);
+  const last = Math.max(now.last, kept.last);
 
   return (
     <div ref={scrollRef} className="tx-scroll" tabIndex={-1} onScroll={onScroll}>
