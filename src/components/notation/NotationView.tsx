@@ -10,7 +10,7 @@
 import { useEffect, useLayoutEffect, useMemo, useRef, useState } from "react";
 import type { GrooveDocument } from "../../lib/rhythm/document";
 import type { NotationScore } from "../../lib/rhythm/notation/model";
-import { spellGroove } from "../../lib/rhythm/notation/spell";
+import { respell, type Spelled } from "./respell";
 
 type Adapter = typeof import("../../adapters/vexflow/index");
 type Renderer = import("../../adapters/vexflow/view").NotationRenderer;
@@ -48,6 +48,7 @@ export function NotationView({ doc, score: given, playhead = null, showKeys = tr
   const host = useRef<HTMLDivElement>(null);
   const renderer = useRef<Renderer | null>(null);
   const lastDrawn = useRef<{ score: NotationScore; width: number } | null>(null);
+  const lastSpelled = useRef<Spelled | null>(null);
   const [adapter, setAdapter] = useState<Adapter | null>(null);
   const [fontsReady, setFontsReady] = useState(false);
   const [width, setWidth] = useState(0);
@@ -59,7 +60,10 @@ export function NotationView({ doc, score: given, playhead = null, showKeys = tr
     if (given) return given;
     if (!doc) return null;
     try {
-      return spellGroove(doc);
+      // An edit spells only the bars it changed; the others keep their objects (and cached drawings).
+      const score = respell(lastSpelled.current, doc);
+      lastSpelled.current = { doc, score };
+      return score;
     } catch (e) {
       return e instanceof Error ? e : new Error(String(e));
     }
