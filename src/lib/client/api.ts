@@ -1,58 +1,13 @@
 /**
  * Typed fetch for the app's own API. Every call sends and expects JSON; a refusal becomes an ApiClientError that
  * carries the server's one error shape ({ error: { code, message, fields? } }) plus any extra members (e.g. `latest`).
- * Types mirror what the routes under src/pages/api answer.
+ * The answer types live in src/lib/api-types.ts, shared with the server that builds them.
  */
+import type { GrooveDetail, GrooveRole, GrooveSummary, PublicUser, SiteRole, VersionSummary, VersionWithDocument, Visibility } from "../api-types";
 import type { GrooveDocument } from "../rhythm/document";
 
-export type Visibility = "private" | "link" | "public";
-export type GrooveRole = "owner" | "editor" | "viewer";
-export type SiteRole = "admin" | "member";
-
-export interface User {
-  id: string;
-  email: string;
-  displayName: string;
-  siteRole: SiteRole;
-  emailVerified: boolean;
-  disabled: boolean;
-  createdAt?: string;
-}
-
-export interface VersionSummary {
-  id: string;
-  grooveId: string;
-  number: number;
-  contentHash: string;
-  message: string;
-  author: { id: string; displayName: string } | null;
-  parentVersionId: string | null;
-  createdAt: string;
-}
-export interface Version extends VersionSummary {
-  document: GrooveDocument;
-}
-
-export interface GrooveSummary {
-  id: string;
-  title: string;
-  description: string;
-  tags: string[];
-  visibility: Visibility;
-  owner: { id: string; displayName: string };
-  role: GrooveRole | null;
-  latestVersion: { id: string; number: number } | null;
-  forkedFromId: string | null;
-  createdAt: string;
-  updatedAt: string;
-  deletedAt: string | null;
-}
-export interface GrooveDetail extends Omit<GrooveSummary, "latestVersion"> {
-  permissions: { edit: boolean; share: boolean; delete: boolean; fork: boolean; seeCollaborators: boolean };
-  latestVersion: VersionSummary | null;
-  forkedFrom: { id: string; title: string } | null;
-  restorableUntil: string | null;
-}
+export type { GrooveDetail, GrooveRole, GrooveSummary, SiteRole, VersionSummary, Visibility } from "../api-types";
+export type User = PublicUser;
 
 export interface Page<T> {
   items: T[];
@@ -148,9 +103,9 @@ export const api = {
   restoreGroove: (id: string) => apiFetch<GrooveDetail>("POST", `/api/grooves/${encodeURIComponent(id)}/restore`),
   forkGroove: (id: string, body: { title?: string; versionId?: string } = {}) => apiFetch<GrooveDetail>("POST", `/api/grooves/${encodeURIComponent(id)}/fork`, body),
   versions: (id: string) => apiFetch<{ items: VersionSummary[] }>("GET", `/api/grooves/${encodeURIComponent(id)}/versions?limit=500`),
-  version: (id: string, versionId: string) => apiFetch<Version>("GET", `/api/grooves/${encodeURIComponent(id)}/versions/${encodeURIComponent(versionId)}`),
+  version: (id: string, versionId: string) => apiFetch<VersionWithDocument>("GET", `/api/grooves/${encodeURIComponent(id)}/versions/${encodeURIComponent(versionId)}`),
   restoreVersion: (id: string, versionId: string, baseVersionId: string) =>
-    apiFetch<Version>("POST", `/api/grooves/${encodeURIComponent(id)}/versions/${encodeURIComponent(versionId)}/restore`, { baseVersionId }),
+    apiFetch<VersionWithDocument>("POST", `/api/grooves/${encodeURIComponent(id)}/versions/${encodeURIComponent(versionId)}/restore`, { baseVersionId }),
   collaborators: (id: string) => apiFetch<Collaborators>("GET", `/api/grooves/${encodeURIComponent(id)}/collaborators`),
   invite: (id: string, body: { email: string; role: "editor" | "viewer" }) => apiFetch<unknown>("POST", `/api/grooves/${encodeURIComponent(id)}/invitations`, body),
   revokeInvitation: (id: string, invitationId: string) => apiFetch<void>("DELETE", `/api/grooves/${encodeURIComponent(id)}/invitations/${encodeURIComponent(invitationId)}`),

@@ -4,6 +4,7 @@ import { and, asc, desc, eq, ilike, isNotNull, isNull, lt, or, sql, type SQL } f
 import { alias } from "drizzle-orm/pg-core";
 import { nanoid } from "nanoid";
 import { z } from "zod";
+import type { GrooveDetail, GrooveSummary } from "../api-types";
 import type { GrooveDocument } from "../rhythm/document";
 import { audit, type Executor } from "./audit";
 import { getDb } from "./db/index";
@@ -12,7 +13,9 @@ import { can, grooveRole, refusalStatus, type Actor, type CollaboratorRole, type
 import { ApiError } from "./route";
 import type { SessionUser } from "./session";
 import { likePattern } from "./user";
-import { contentHash, newVersionId, type VersionSummary } from "./versions";
+import { contentHash, newVersionId } from "./versions";
+
+export type { GrooveDetail, GrooveSummary };
 
 /** How long a deleted groove can be restored. */
 export const RESTORE_WINDOW_MS = 30 * 24 * 3600_000;
@@ -37,31 +40,6 @@ export const tagsSchema = z
   .max(16, "Use at most 16 tags.")
   .transform((tags) => [...new Set(tags)]);
 export const visibilitySchema = z.enum(["private", "link", "public"], { message: "Visibility is private, link or public." });
-
-/** What the API shows of a groove in lists and on its page. */
-export interface GrooveSummary {
-  id: string;
-  title: string;
-  description: string;
-  tags: string[];
-  visibility: Visibility;
-  owner: { id: string; displayName: string };
-  /** The viewer's own role, or null (a public groove seen by someone else). */
-  role: GrooveRole | null;
-  latestVersion: { id: string; number: number } | null;
-  forkedFromId: string | null;
-  createdAt: string;
-  updatedAt: string;
-  deletedAt: string | null;
-}
-
-export interface GrooveDetail extends GrooveSummary {
-  permissions: { edit: boolean; share: boolean; delete: boolean; fork: boolean; seeCollaborators: boolean };
-  latestVersion: (VersionSummary & { id: string; number: number }) | null;
-  forkedFrom: { id: string; title: string } | null;
-  /** When a deleted groove stops being restorable. */
-  restorableUntil: string | null;
-}
 
 export interface LoadedGroove {
   groove: Groove;

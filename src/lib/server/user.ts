@@ -3,6 +3,7 @@
 import { and, asc, count, eq, ilike, isNotNull, isNull, or, sql, type SQL } from "drizzle-orm";
 import { nanoid } from "nanoid";
 import { z } from "zod";
+import type { PublicUser } from "../api-types";
 import { audit } from "./audit";
 import { getDb } from "./db/index";
 import { users, type User } from "./db/schema";
@@ -32,16 +33,7 @@ export const newPasswordSchema = z.string({ message: "Enter a password." }).supe
   if (problem) ctx.addIssue({ code: "custom", message: problem });
 });
 
-/** What the API shows of an account. */
-export interface PublicUser {
-  id: string;
-  email: string;
-  displayName: string;
-  siteRole: SiteRole;
-  emailVerified: boolean;
-  disabled: boolean;
-  createdAt: string;
-}
+export type { PublicUser };
 
 export function publicUser(u: User): PublicUser {
   return {

@@ -8,6 +8,7 @@ import { createHash } from "node:crypto";
 import canonicalize from "canonicalize";
 import { and, desc, eq, lt, sql } from "drizzle-orm";
 import { nanoid } from "nanoid";
+import type { VersionSummary, VersionWithDocument } from "../api-types";
 import type { GrooveDocument } from "../rhythm/document";
 import type { Executor } from "./audit";
 import { getDb } from "./db/index";
@@ -30,21 +31,7 @@ export function contentHash(document: unknown): string {
 
 export const newVersionId = () => nanoid(16);
 
-/** A version without its document (history lists). */
-export interface VersionSummary {
-  id: string;
-  grooveId: string;
-  number: number;
-  contentHash: string;
-  message: string;
-  author: { id: string; displayName: string } | null;
-  parentVersionId: string | null;
-  createdAt: string;
-}
-
-export interface VersionWithDocument extends VersionSummary {
-  document: GrooveDocument;
-}
+export type { VersionSummary, VersionWithDocument };
 
 const summaryColumns = {
   id: grooveVersions.id,
