@@ -13,7 +13,7 @@ import { can, grooveRole, refusalStatus, type Actor, type CollaboratorRole, type
 import { ApiError } from "./route";
 import type { SessionUser } from "./session";
 import { likePattern } from "./user";
-import { contentHash, newVersionId } from "./versions";
+import { contentHash, getVersionSummary, newVersionId } from "./versions";
 
 export type { GrooveDetail, GrooveSummary };
 
@@ -288,35 +288,7 @@ export async function getGrooveDetail(actor: SessionUser | null, grooveId: strin
 async function describeGroove(actor: SessionUser | null, { groove, collaboratorRole, role }: LoadedGroove): Promise<GrooveDetail> {
   const db = getDb();
   const [ownerRow] = await db.select({ displayName: users.displayName }).from(users).where(eq(users.id, groove.ownerId));
-  let latest: GrooveDetail["latestVersion"] = null;
-  if (groove.latestVersionId) {
-    const [v] = await db
-      .select({
-        id: grooveVersions.id,
-        number: grooveVersions.number,
-        contentHash: grooveVersions.contentHash,
-        message: grooveVersions.message,
-        authorId: grooveVersions.authorId,
-        authorName: users.displayName,
-        parentVersionId: grooveVersions.parentVersionId,
-        createdAt: grooveVersions.createdAt,
-      })
-      .from(grooveVersions)
-      .leftJoin(users, eq(users.id, grooveVersions.authorId))
-      .where(eq(grooveVersions.id, groove.latestVersionId));
-    if (v) {
-      latest = {
-        id: v.id,
-        grooveId: groove.id,
-        number: v.number,
-        contentHash: v.contentHash,
-        message: v.message,
-        author: v.authorId ? { id: v.authorId, displayName: v.authorName ?? "" } : null,
-        parentVersionId: v.parentVersionId,
-        createdAt: v.createdAt.toISOString(),
-      };
-    }
-  }
+  const latest = groove.latestVersionId ? await getVersionSummary(groove.latestVersionId, db) : null;
   let forkedFrom: GrooveDetail["forkedFrom"] = null;
   if (groove.forkedFromId) {
     const [f] = await db

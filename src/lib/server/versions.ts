@@ -72,6 +72,17 @@ export async function listVersions(grooveId: string, { before, limit }: { before
   return rows.map(toSummary);
 }
 
+/** One version without its document, or null. */
+export async function getVersionSummary(versionId: string, db: Executor = getDb()): Promise<VersionSummary | null> {
+  const [row] = await db
+    .select(summaryColumns)
+    .from(grooveVersions)
+    .leftJoin(users, eq(users.id, grooveVersions.authorId))
+    .where(eq(grooveVersions.id, versionId))
+    .limit(1);
+  return row ? toSummary(row) : null;
+}
+
 /** One version with its document, or null. */
 export async function getVersion(grooveId: string, versionId: string, db: Executor = getDb()): Promise<VersionWithDocument | null> {
   const [row] = await db
