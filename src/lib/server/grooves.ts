@@ -336,33 +336,31 @@ export interface CreateInput {
   message: string;
 }
 
+/**
+ * Inserts a new groove, its version 1 and the groove's pointer to it, all stamped with one time. Runs inside the
+ * caller's transaction (create, fork), which also writes the audit row.
+ */
+async function insertWithFirstVersion(
+  tx: Executor,
+  groove: Omit<typeof grooves.$inferInsert, "createdAt" | "updatedAt" | "latestVersionId">,
+  version: Pick<typeof grooveVersions.$inferInsert, "id" | "document" | "contentHash" | "authorId" | "message">,
+): Promise<void> {
+  const now = new Date();
+  await tx.insert(grooves).values({ ...groove, createdAt: now, updatedAt: now });
+  await tx.insert(grooveVersions).values({ ...version, grooveId: groove.id, number: 1, createdAt: now });
+  await tx.update(grooves).set({ latestVersionId: version.id }).where(eq(grooves.id, groove.id));
+}
+
 /** Creates a groove with its first version, owned by the actor. */
 export async function createGroove(actor: SessionUser, input: CreateInput): Promise<GrooveDetail> {
   const id = newGrooveId();
   const versionId = newVersionId();
   await getDb().transaction(async (tx) => {
-    const now = new Date();
-    await tx.insert(grooves).values({
-      id,
-      ownerId: actor.id,
-      title: input.title,
-      description: input.description,
-      tags: input.tags,
-      visibility: input.visibility,
-      createdAt: now,
-      updatedAt: now,
-    });
-    await tx.insert(grooveVersions).values({
-      id: versionId,
-      grooveId: id,
-      number: 1,
-      document: input.document,
-      contentHash: contentHash(input.document),
-      authorId: actor.id,
-      message: input.message,
-      createdAt: now,
-    });
-    await tx.update(grooves).set({ latestVersionId: versionId }).where(eq(grooves.id, id));
+    await insertWithFirstVersion(
+      tx,
+      { id, ownerId: actor.id, title: input.title, description: input.description, tags: input.tags, visibility: input.visibility },
+      { id: versionId, document: input.document, contentHash: contentHash(input.document), authorId: actor.id, message: input.message },
+    );
     await audit(tx, { actorId: actor.id, action: "groove.created", grooveId: id, versionId });
   });
   return getGrooveDetail(actor, id);
@@ -439,30 +437,26 @@ export async function forkGroove(actor: SessionUser, grooveId: string, opts: { t
   const id = newGrooveId();
   const versionId = newVersionId();
   await getDb().transaction(async (tx) => {
-    const now = new Date();
-    await tx.insert(grooves).values({
-      id,
-      ownerId: actor.id,
-      title: opts.title ?? `${groove.title} (fork)`.slice(0, 120),
-      description: groove.description,
-      tags: groove.tags,
-      visibility: "private",
-      forkedFromId: groove.id,
-      forkedFromVersionId: source.id,
-      createdAt: now,
-      updatedAt: now,
-    });
-    await tx.insert(grooveVersions).values({
-      id: versionId,
-      grooveId: id,
-      number: 1,
-      document: source.document,
-      contentHash: source.contentHash,
-      authorId: actor.id,
-      message: `Forked from "${groove.title}", version ${source.number}`,
-      createdAt: now,
-    });
-    await tx.update(grooves).set({ latestVersionId: versionId }).where(eq(grooves.id, id));
+    await insertWithFirstVersion(
+      tx,
+      {
+        id,
+        ownerId: actor.id,
+        title: opts.title ?? `${groove.title} (fork)`.slice(0, 120),
+        description: groove.description,
+        tags: groove.tags,
+        visibility: "private",
+        forkedFromId: groove.id,
+        forkedFromVersionId: source.id,
+      },
+      {
+        id: versionId,
+        document: source.document,
+        contentHash: source.contentHash,
+        authorId: actor.id,
+        message: `Forked from "${groove.title}", version ${source.number}`,
+      },
+    );
     await audit(tx, { actorId: actor.id, action: "groove.forked", grooveId: id, versionId, details: { from: groove.id, fromVersion: source.id } });
   });
   return getGrooveDetail(actor, id);
