@@ -10,6 +10,7 @@
  */
 import { assertGroove, type GrooveDocument } from "../../lib/rhythm/document";
 import { detectOnsets, mixDown } from "../../lib/rhythm/onsets";
+import type { PlaybackOptions } from "../../lib/rhythm/playback-plan";
 import { createPlayer, type PlayerOptions } from "./player";
 import { renderOffline, type OfflineOptions } from "./offline";
 
@@ -69,6 +70,8 @@ export function createTransport() {
 export interface AudioTestHook {
   /** The document last given to play or update. */
   doc: GrooveDocument | null;
+  /** The playback options given with it (the embed's play island; {} from the editor). */
+  options: PlaybackOptions;
   /**
    * Render a document offline (the last played one unless `doc` is given; before the limiter) and detect its
    * onsets; `windows` asks for the RMS level of stretches of the render ([from, to] seconds).
@@ -85,11 +88,17 @@ export interface AudioTestHook {
   }>;
 }
 
-function installTestHook(doc: GrooveDocument): void {
+/**
+ * Exposes `window.__tactusAudio` for the browser tests, only when the page address has `?audio-test`; a no-op
+ * otherwise. Call it with what is about to play (editor transport, embed play island).
+ * @example installTestHook(doc, { metronome: false });
+ */
+export function installTestHook(doc: GrooveDocument, options: PlaybackOptions = {}): void {
   if (typeof window === "undefined" || !new URLSearchParams(window.location.search).has("audio-test")) return;
   const w = window as unknown as { __tactusAudio?: AudioTestHook };
   const hook: AudioTestHook = (w.__tactusAudio ??= {
     doc: null,
+    options: {},
     async renderAndDetect({ doc: given, windows = [], ...opts } = {}) {
       const doc = given === undefined ? hook.doc : assertGroove(given);
       if (!doc) throw new Error("nothing has been played yet");
@@ -109,4 +118,5 @@ function installTestHook(doc: GrooveDocument): void {
     },
   });
   hook.doc = doc;
+  hook.options = options;
 }

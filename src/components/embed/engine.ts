@@ -5,11 +5,10 @@
  * On a compare page the other readings follow the same sound: a reading that sounds `offset` seconds later is
  * shown `offset` seconds further on (wrapped around its loop).
  */
-import { createPlayer, renderOffline, type OfflineOptions } from "../../adapters/tone";
+import { createPlayer, installTestHook } from "../../adapters/tone";
 import type { GrooveDocument } from "../../lib/rhythm/document";
 import { barLength } from "../../lib/rhythm/document";
 import { beatStarts } from "../../lib/rhythm/meter";
-import { detectOnsets, mixDown } from "../../lib/rhythm/onsets";
 import { buildPlaybackPlan, type BeatMark, type PlaybackOptions, type PlaybackPlan } from "../../lib/rhythm/playback-plan";
 import type { IslandData, IslandLayout } from "./island-data";
 import type { IslandState, Session } from "./island";
@@ -194,30 +193,4 @@ export function createSession(root: HTMLElement, data: IslandData): Session {
       stopped.add(cb);
     },
   };
-}
-
-/** The test hook of the audio adapter's browser tests (`?audio-test=1` only): an offline render of what plays. */
-interface AudioTestHook {
-  doc: GrooveDocument | null;
-  options: PlaybackOptions;
-  renderAndDetect(options?: OfflineOptions): Promise<{ onsets: number[]; duration: number; sampleRate: number; renderSeconds: number; peak: number }>;
-}
-
-function installTestHook(doc: GrooveDocument, options: PlaybackOptions): void {
-  if (!new URLSearchParams(window.location.search).has("audio-test")) return;
-  const w = window as unknown as { __tactusAudio?: AudioTestHook };
-  const hook: AudioTestHook = (w.__tactusAudio ??= {
-    doc: null,
-    options: {},
-    async renderAndDetect(opts = {}) {
-      if (!hook.doc) throw new Error("nothing has been played yet");
-      const r = await renderOffline(hook.doc, { tap: "pre-limiter", ...opts });
-      const mono = mixDown(r.channels);
-      let peak = 0;
-      for (const v of mono) peak = Math.max(peak, Math.abs(v));
-      return { onsets: detectOnsets(mono, r.sampleRate), duration: r.duration, sampleRate: r.sampleRate, renderSeconds: r.renderSeconds, peak };
-    },
-  });
-  hook.doc = doc;
-  hook.options = options;
 }
