@@ -5,20 +5,17 @@
 // `npm run bench -- library-load`. It makes a scratch database in the project's dev cluster (started if needed;
 // BENCH_ADMIN_URL=postgres://…/postgres uses another server), builds the app into .data/bench-dist (or uses
 // BENCH_SERVER_ENTRY), runs, then drops the scratch database. BENCH_SECONDS sets each run's length (default 10).
-import { spawn } from "node:child_process";
 import { createHash, randomBytes } from "node:crypto";
 import { readFileSync } from "node:fs";
 import { cpus } from "node:os";
-import path from "node:path";
-import { fileURLToPath } from "node:url";
 import autocannon from "autocannon";
 import canonicalize from "canonicalize";
 import pg from "pg";
 import { createDb } from "../../src/lib/server/db/index.ts";
 import { runMigrations } from "../../src/lib/server/db/migrate.ts";
 import { emptyGroove } from "../../src/lib/rhythm/document.ts";
+import { startBuiltServer } from "./support/built-server.mjs";
 
-const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "../..");
 const GROOVES = 10_000;
 const CONNECTIONS = 20;
 const SECONDS = Number(process.env.BENCH_SECONDS) || 10;
@@ -41,24 +38,6 @@ async function adminUrl() {
   const cluster = await ensureCluster("dev");
   if (cluster.startedNow) stopClusterAfter = () => stopCluster("dev");
   return `postgres://postgres@127.0.0.1:${cluster.port}/postgres`;
-}
-
-function run(cmd, args, env) {
-  return new Promise((resolve, reject) => {
-    const child = spawn(cmd, args, { cwd: ROOT, env, stdio: ["ignore", "ignore", "inherit"] });
-    child.on("exit", (code) => (code === 0 ? resolve() : reject(new Error(`${cmd} ${args.join(" ")} exited ${code}`))));
-  });
-}
-
-async function freePort() {
-  const net = await import("node:net");
-  return new Promise((resolve) => {
-    const s = net.createServer();
-    s.listen(0, "127.0.0.1", () => {
-      const { port } = s.address();
-      s.close(() => resolve(port));
-    });
-  });
 }
 
 /** A small valid document; `k` varies the kick so documents (and hashes) differ. */
@@ -180,25 +159,9 @@ try {
   const pool = new pg.Pool({ connectionString: dbUrl.href, max: 4 });
   await seed(pool);
 
-  let entry = process.env.BENCH_SERVER_ENTRY;
-  if (!entry) {
-    say("building the app into .data/bench-dist");
-    await run(path.join(ROOT, "node_modules/.bin/astro"), ["build"], { ...process.env, ASTRO_TELEMETRY_DISABLED: "1", TACTUS_OUT_DIR: "./.data/bench-dist" });
-    entry = path.join(ROOT, ".data/bench-dist/server/entry.mjs");
-  }
-  const port = await freePort();
-  const base = `http://127.0.0.1:${port}`;
-  server = spawn(process.execPath, [entry], {
-    env: { ...process.env, DATABASE_URL: dbUrl.href, HOST: "127.0.0.1", PORT: String(port), SMTP_URL: "smtp://127.0.0.1:9" },
-    stdio: ["ignore", "ignore", "inherit"],
-  });
-  for (let i = 0; ; i++) {
-    try {
-      if ((await fetch(`${base}/api/health`)).ok) break;
-    } catch {}
-    if (i > 300) throw new Error("the server did not start");
-    await new Promise((r) => setTimeout(r, 100));
-  }
+  const started = await startBuiltServer({ say, dbUrl: dbUrl.href, distDir: ".data/bench-dist" });
+  server = started.server;
+  const base = started.base;
 
   const token = randomBytes(20).toString("base64url");
   await pool.query("insert into sessions (id, user_id, expires_at, created_at) values ($1, 'usr_bench_0', now() + interval '1 day', now())", [sha256(token)]);

@@ -5,36 +5,16 @@
 // Database: a scratch database in the project's dev cluster (started if needed, stopped again if this started it),
 // or on the server BENCH_ADMIN_URL names (postgres://…/postgres). App: built into .data/embed-bench-dist, or
 // BENCH_SERVER_ENTRY (an already built dist/server/entry.mjs).
-import { spawn } from "node:child_process";
 import { createHash } from "node:crypto";
-import net from "node:net";
-import path from "node:path";
-import { fileURLToPath } from "node:url";
 import canonicalize from "canonicalize";
 import pg from "pg";
 import { createDb } from "../../../src/lib/server/db/index.ts";
 import { runMigrations } from "../../../src/lib/server/db/migrate.ts";
 import { DEMO_GROOVES } from "../../../src/lib/demo/grooves.ts";
 import { assertGroove } from "../../../src/lib/rhythm/document.ts";
+import { startBuiltServer } from "./built-server.mjs";
 
-export const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "../../..");
-
-export async function freePort() {
-  return new Promise((resolve) => {
-    const s = net.createServer();
-    s.listen(0, "127.0.0.1", () => {
-      const { port } = s.address();
-      s.close(() => resolve(port));
-    });
-  });
-}
-
-function run(cmd, args, env) {
-  return new Promise((resolve, reject) => {
-    const child = spawn(cmd, args, { cwd: ROOT, env, stdio: ["ignore", "ignore", "inherit"] });
-    child.on("exit", (code) => (code === 0 ? resolve() : reject(new Error(`${cmd} ${args.join(" ")} exited ${code}`))));
-  });
-}
+export { freePort } from "./built-server.mjs";
 
 /**
  * Starts everything; returns { base, versionId, grooveId, stop }.
@@ -85,25 +65,9 @@ export async function startEmbedServer({ say }) {
     await pool.query("update grooves set latest_version_id = 'benchEmbed01v1' where id = 'benchEmbed01'");
     await pool.end();
 
-    let entry = process.env.BENCH_SERVER_ENTRY;
-    if (!entry) {
-      say("building the app into .data/embed-bench-dist");
-      await run(path.join(ROOT, "node_modules/.bin/astro"), ["build"], { ...process.env, ASTRO_TELEMETRY_DISABLED: "1", TACTUS_OUT_DIR: "./.data/embed-bench-dist" });
-      entry = path.join(ROOT, ".data/embed-bench-dist/server/entry.mjs");
-    }
-    const port = await freePort();
-    const base = `http://127.0.0.1:${port}`;
-    server = spawn(process.execPath, [entry], {
-      env: { ...process.env, DATABASE_URL: dbUrl, HOST: "127.0.0.1", PORT: String(port), SMTP_URL: "smtp://127.0.0.1:9" },
-      stdio: ["ignore", "ignore", "inherit"],
-    });
-    for (let i = 0; ; i++) {
-      try {
-        if ((await fetch(`${base}/api/health`)).ok) break;
-      } catch {}
-      if (i > 300) throw new Error("the server did not start");
-      await new Promise((r) => setTimeout(r, 100));
-    }
+    const started = await startBuiltServer({ say, dbUrl, distDir: ".data/embed-bench-dist" });
+    server = started.server;
+    const base = started.base;
     return { base, grooveId: "benchEmbed01", versionId: "benchEmbed01v1", stop };
   } catch (e) {
     await stop();
