@@ -92,6 +92,11 @@ describe("library in chromium", () => {
     const { page, errors } = await openPage(browser, `/grooves/${g.grooveId}`);
     await hydrated(page);
     expect(await page.getByTestId("groove-title").textContent()).toBe("Harbour bell");
+    // The version is shown as notation drawn on the server (percussion clef glyph from Bravura: SMuFL U+E069,
+    // "unpitchedPercussionClef1"), with a visible drawing for this width.
+    const notation = page.getByTestId("version-notation");
+    expect(await notation.locator("svg:visible").count()).toBe(1);
+    expect(await notation.locator("svg:visible").innerHTML()).toContain("\uE069");
     const history = page.getByTestId("version-history");
     await expect.poll(() => history.locator("li").count()).toBe(2);
     await history.locator("li", { hasText: "v1" }).getByRole("link", { name: "Open" }).click();
