@@ -5,6 +5,7 @@
  */
 import { memo, useCallback, useEffect, useId, useMemo, useRef, useState, type PointerEvent as ReactPointerEvent } from "react";
 import { useShallow } from "zustand/react/shallow";
+import { useGestureEnd } from "./use-gesture-end";
 import { q, type KeyNote } from "../../lib/rhythm";
 import { keyNoteAt } from "../../lib/rhythm/editing";
 import { keysRows, pitchName, type GridColumn } from "../../stores/selectors";
@@ -126,19 +127,7 @@ export function KeysLane({ columns, shade, first, last }: { columns: GridColumn[
     if (cell && cell !== document.activeElement) cell.focus();
   }, [cursor]);
 
-  useEffect(() => {
-    const end = () => {
-      if (!dragging.current) return;
-      dragging.current = false;
-      actions.endGesture();
-    };
-    window.addEventListener("pointerup", end);
-    window.addEventListener("pointercancel", end);
-    return () => {
-      window.removeEventListener("pointerup", end);
-      window.removeEventListener("pointercancel", end);
-    };
-  }, [actions]);
+  useGestureEnd(dragging, actions.endGesture);
 
   const cellOf = (t: EventTarget | null) => (t as HTMLElement | null)?.closest?.("[data-pcell]") as HTMLElement | null;
 

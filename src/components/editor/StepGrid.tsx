@@ -5,6 +5,7 @@
  */
 import { memo, useEffect, useRef, useState, type PointerEvent as ReactPointerEvent } from "react";
 import { useShallow } from "zustand/react/shallow";
+import { useGestureEnd } from "./use-gesture-end";
 import { KIT_PIECES, KIT_ROW_ORDER, type KitPieceId } from "../../lib/rhythm";
 import type { GridColumn } from "../../stores/selectors";
 import { useActions, useEditor, useEditorStore } from "./context";
@@ -49,19 +50,7 @@ export function StepGrid({ columns, shade, first, last, menuRef }: StepGridProps
     if (cell && cell !== document.activeElement) cell.focus();
   }, [cursor]);
 
-  useEffect(() => {
-    const end = () => {
-      if (!painting.current) return;
-      painting.current = false;
-      actions.endGesture();
-    };
-    window.addEventListener("pointerup", end);
-    window.addEventListener("pointercancel", end);
-    return () => {
-      window.removeEventListener("pointerup", end);
-      window.removeEventListener("pointercancel", end);
-    };
-  }, [actions]);
+  useGestureEnd(painting, actions.endGesture);
 
   const openMenuAt = (row: number, col: number) => {
     const piece = store.getState().doc.kit.lanes[row]?.piece;
