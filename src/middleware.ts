@@ -4,6 +4,7 @@ import { defineMiddleware, sequence } from "astro:middleware";
 import { answerStored, conditional, freshPage, readStoreDirective, STORE_HEADER, storePage } from "./lib/server/embed-cache";
 import { installEmbedFastLane } from "./lib/server/embed-fast-lane";
 import { error } from "./lib/server/http";
+import { forgetAfterWrite } from "./lib/server/read-cache";
 import { clearSessionCookie, readSessionToken, setSessionCookie, validateSessionToken } from "./lib/server/session";
 import { forgetGrooveStates } from "./lib/server/sharing";
 import { embedCacheKey } from "./lib/share/embed-options";
@@ -133,7 +134,10 @@ const publicSurfaces = defineMiddleware(async (ctx, next) => {
   }
   const response = await next();
   // A write may have changed what public surfaces may show (visibility, deletion, a new version): they re-read it.
-  if (!safe) forgetGrooveStates();
+  if (!safe) {
+    forgetGrooveStates();
+    forgetAfterWrite();
+  }
   return withFrameRules(safe ? conditional(request, response) : response, embeddable);
 });
 

@@ -4,6 +4,7 @@
 import { afterAll, describe, expect, it } from "vitest";
 import { recordSignInFailure, LIMITS } from "../../src/lib/server/rate-limit";
 import { closeDb as closeAppDb } from "../../src/lib/server/db/index";
+import { SESSION_REMEMBER_MS } from "../../src/lib/server/session";
 import { PASSWORD, api, closeDb, createUser, db, errorOf, mailbox, sessionFor, sessionFrom, sha256, tokenFromMail, uid } from "./helpers";
 
 afterAll(async () => {
@@ -88,6 +89,27 @@ describe("sign-up and sessions", () => {
     expect(sessionFrom(r)).toBe(token);
     const exp = (await db().query("select expires_at from sessions where id = $1", [sha256(token)])).rows[0].expires_at as Date;
     expect(exp.getTime()).toBeGreaterThan(Date.now() + 6 * 24 * 3600_000);
+  });
+
+  it("remembers a validated session for at most SESSION_REMEMBER_MS, and forgets it at once when Tactus ends it", async () => {
+    const user = await createUser();
+    // Used (so remembered), then signed out: refused by the very next request.
+    const a = await sessionFor(user.id);
+    expect((await api("GET", "/api/auth/me", { cookie: a })).status).toBe(200);
+    expect((await api("POST", "/api/auth/sign-out", { cookie: a })).status).toBe(204);
+    expect((await api("GET", "/api/auth/me", { cookie: a })).status).toBe(401);
+    // Used, then promoted by an admin: the new site role is seen by the very next request.
+    const b = await sessionFor(user.id);
+    expect((await api("GET", "/api/admin/users", { cookie: b })).status).toBe(403);
+    const admin = await createUser({ siteRole: "admin" });
+    expect((await api("PATCH", `/api/admin/users/${user.id}`, { cookie: await sessionFor(admin.id), body: { siteRole: "admin" } })).status).toBe(200);
+    expect((await api("GET", "/api/admin/users", { cookie: b })).status).toBe(200);
+    // Deleted by SQL outside Tactus: still accepted from memory for a moment, refused once SESSION_REMEMBER_MS passed.
+    const c = await sessionFor(user.id);
+    expect((await api("GET", "/api/auth/me", { cookie: c })).status).toBe(200);
+    await db().query("delete from sessions where id = $1", [sha256(c)]);
+    await new Promise((r) => setTimeout(r, SESSION_REMEMBER_MS + 100));
+    expect((await api("GET", "/api/auth/me", { cookie: c })).status).toBe(401);
   });
 
   it("signs out: the session row is gone and the cookie cleared", async () => {

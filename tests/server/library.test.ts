@@ -121,6 +121,21 @@ describe("the library list", () => {
   });
 });
 
+describe("list totals", () => {
+  it("are remembered between pages but follow every write made through Tactus at once", async () => {
+    const owner = await createUser({ label: "counter" });
+    const cookie = await sessionFor(owner.id);
+    const total = async () => (await api("GET", "/api/grooves?scope=mine&pageSize=1", { cookie })).body.total;
+    await createGroove(owner.id, { title: "Counted one" });
+    expect(await total()).toBe(1);
+    const made = await api("POST", "/api/grooves", { cookie, body: { title: "Counted two" } });
+    expect(made.status).toBe(201);
+    expect(await total()).toBe(2);
+    expect((await api("DELETE", `/api/grooves/${made.body.id}`, { cookie })).status).toBeLessThan(300);
+    expect(await total()).toBe(1);
+  });
+});
+
 describe("soft delete and restore", () => {
   it("moves a groove to the trash, hides it, and restores it within 30 days", async () => {
     const g = await createGroove(owner.id, { title: `Trash me ${uid(5)}` });

@@ -10,6 +10,7 @@ import { audit, type Executor } from "./audit";
 import { getDb } from "./db/index";
 import { collaborators, grooveVersions, grooves, users, type Groove } from "./db/schema";
 import { can, grooveRole, refusalStatus, type Actor, type CollaboratorRole, type GrooveAction, type GrooveRole, type Visibility } from "./roles";
+import { createReadCache, forgetAfterWrite } from "./read-cache";
 import { ApiError } from "./route";
 import type { SessionUser } from "./session";
 import { likePattern } from "./user";
@@ -136,11 +137,11 @@ interface ListShape {
 }
 
 /**
- * Builds the list query of one shape with placeholders ($me, $q, $tag, $owner, $limit, $offset). The page and its
- * total come back in one round trip: the total is an uncorrelated sub-select (computed once), counting at most
- * COUNT_CAP + 1 matches.
+ * Builds the list query of one shape with placeholders ($me, $q, $tag, $owner, $limit, $offset). With `withTotal`,
+ * the page and its total come back in one round trip: the total is an uncorrelated sub-select (computed once),
+ * counting at most COUNT_CAP + 1 matches; without it, the page alone (the total is remembered, see `totals`).
  */
-function buildListStatement(shape: ListShape) {
+function buildListStatement(shape: ListShape, withTotal: boolean) {
   const me = sql.placeholder("me");
   const where: SQL[] = [];
   const mine = eq(grooves.ownerId, me);
@@ -170,7 +171,11 @@ function buildListStatement(shape: ListShape) {
       : shape.sort === "created"
         ? [order(grooves.createdAt), order(grooves.id)]
         : [order(grooves.updatedAt), order(grooves.id)];
-  const name = `grooves_list_${shape.scope}_${shape.who}_${shape.q ? "q" : ""}${shape.tag ? "t" : ""}${shape.owner ? "o" : ""}_${shape.sort}_${shape.dir}`;
+  const name = `grooves_list_${shape.scope}_${shape.who}_${shape.q ? "q" : ""}${shape.tag ? "t" : ""}${shape.owner ? "o" : ""}_${shape.sort}_${shape.dir}${withTotal ? "_total" : ""}`;
+  // Inside the sub-select "grooves" and "collaborators" name its own FROM items (the nearest scope).
+  const total = withTotal
+    ? sql<number>`(select count(*)::int from (select 1 from ${grooves} where ${condition} limit ${COUNT_CAP + 1}) as matching)`.mapWith(Number)
+    : sql<null>`null::int`;
   return getDb()
     .select({
       groove: {
@@ -189,8 +194,7 @@ function buildListStatement(shape: ListShape) {
       ownerName: owner.displayName,
       collaboratorRole: collaborators.role,
       latestNumber: grooveVersions.number,
-      // Inside the sub-select "grooves" and "collaborators" name its own FROM items (the nearest scope).
-      total: sql<number>`(select count(*)::int from (select 1 from ${grooves} where ${condition} limit ${COUNT_CAP + 1}) as matching)`.mapWith(Number),
+      total,
     })
     .from(grooves)
     .innerJoin(owner, eq(owner.id, grooves.ownerId))
@@ -205,6 +209,26 @@ function buildListStatement(shape: ListShape) {
 
 type ListStatement = ReturnType<typeof buildListStatement>;
 const listStatements = new Map<string, ListStatement>();
+
+function listStatement(shape: ListShape, withTotal: boolean): ListStatement {
+  const key = `${JSON.stringify(shape)}|${withTotal}`;
+  let statement = listStatements.get(key);
+  if (!statement) {
+    statement = buildListStatement(shape, withTotal);
+    listStatements.set(key, statement);
+  }
+  return statement;
+}
+
+/**
+ * How long the total of a list is remembered (ms): paging through a list, or many viewers opening the same one,
+ * counts its matches once. Every write request through Tactus forgets all totals (see read-cache.ts); changes made
+ * outside it show within this time.
+ */
+export const LIST_TOTAL_REMEMBER_MS = 5000;
+
+/** Totals of lists by shape and parameters (the page itself is always read). */
+const totals = createReadCache<number>({ max: 5000, ttlMs: LIST_TOTAL_REMEMBER_MS, forgetOnWrite: true });
 
 /**
  * The library list: what the actor may see, filtered, sorted and paged.
@@ -227,32 +251,25 @@ export async function listGrooves(actor: SessionUser | null, query: ListQuery): 
     sort: query.sort,
     dir: query.dir,
   };
-  const key = JSON.stringify(shape);
-  let statement = listStatements.get(key);
-  if (!statement) {
-    statement = buildListStatement(shape);
-    listStatements.set(key, statement);
-  }
-  const rows = await statement.execute({
+  const params = {
     me,
     q: query.q ? likePattern(query.q) : "",
     tag: query.tag?.trim().toLowerCase() ?? "",
     owner: query.owner === "me" ? me : (query.owner ?? ""),
-    limit: query.pageSize,
-    offset: (query.page - 1) * query.pageSize,
-  });
-  let counted = rows[0]?.total;
-  if (counted === undefined) {
-    // An empty page (past the end): ask for the total alone.
-    const first = await statement.execute({
-      me,
-      q: query.q ? likePattern(query.q) : "",
-      tag: query.tag?.trim().toLowerCase() ?? "",
-      owner: query.owner === "me" ? me : (query.owner ?? ""),
-      limit: 1,
-      offset: 0,
-    });
-    counted = first[0]?.total ?? 0;
+  };
+  const totalKey = JSON.stringify([shape, params]);
+  const page = { limit: query.pageSize, offset: (query.page - 1) * query.pageSize };
+  let counted = totals.get(totalKey);
+  let rows;
+  if (counted !== undefined) {
+    rows = await listStatement(shape, false).execute({ ...params, ...page });
+  } else {
+    const ticket = totals.ticket();
+    const statement = listStatement(shape, true);
+    rows = await statement.execute({ ...params, ...page });
+    // An empty page (past the end) carries no total: ask for the total alone.
+    counted = rows[0]?.total ?? (await statement.execute({ ...params, limit: 1, offset: 0 }))[0]?.total ?? 0;
+    totals.set(totalKey, counted, ticket);
   }
   const totalCapped = counted > COUNT_CAP;
   const total = Math.min(counted, COUNT_CAP);
@@ -417,6 +434,7 @@ export async function purgeExpiredGrooves(): Promise<number> {
     .delete(grooves)
     .where(and(isNotNull(grooves.deletedAt), lt(grooves.deletedAt, sql`now() - interval '30 days'`)))
     .returning({ id: grooves.id });
+  if (gone.length > 0) forgetAfterWrite(); // a write inside a read request: the middleware does not see it
   return gone.length;
 }
 

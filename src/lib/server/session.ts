@@ -14,6 +14,7 @@ import { Lucia, TimeSpan } from "lucia";
 import type { AstroCookies } from "astro";
 import { getDb } from "./db/index";
 import { sessions, users } from "./db/schema";
+import { createReadCache } from "./read-cache";
 import type { SiteRole } from "./roles";
 
 const hours = (name: string, fallback: number) => {
@@ -99,32 +100,58 @@ export async function createSession(userId: string): Promise<{ token: string; ex
 }
 
 /**
+ * How long a validated session is remembered (ms). Ending sessions and changing users through Tactus forget it at
+ * once (see `forgetSessionsOf`); a session deleted or changed outside this process (SQL, another server) is still
+ * accepted for at most this long.
+ */
+export const SESSION_REMEMBER_MS = 2000;
+
+type ValidSession = Extract<SessionValidation, { user: SessionUser }>;
+const validated = createReadCache<ValidSession>({ max: 10_000, ttlMs: SESSION_REMEMBER_MS });
+
+/**
  * Looks up the session of a cookie token: null user and session when it is unknown, expired (idle or absolute)
- * or belongs to a disabled account (such sessions are deleted on the spot).
+ * or belongs to a disabled account (such sessions are deleted on the spot). A valid answer is remembered briefly,
+ * never past the session's own expiry.
  */
 export async function validateSessionToken(token: string): Promise<SessionValidation> {
   if (!/^[A-Za-z0-9_-]{20,64}$/.test(token)) return { user: null, session: null };
   const id = hashToken(token);
+  const known = validated.get(id);
+  if (known) return known;
+  const ticket = validated.ticket();
   const { session, user } = await auth().validateSession(id);
   if (!session || !user) return { user: null, session: null };
-  if (user.disabled || Date.now() - session.createdAt.getTime() >= SESSION_ABSOLUTE_MS) {
+  const absoluteEnd = session.createdAt.getTime() + SESSION_ABSOLUTE_MS;
+  if (user.disabled || Date.now() >= absoluteEnd) {
     await auth().invalidateSession(id);
     return { user: null, session: null };
   }
-  return {
+  const result: ValidSession = {
     user: { id: user.id, email: user.email, displayName: user.displayName, siteRole: user.siteRole, emailVerified: user.emailVerified },
     session: { id: session.id, expiresAt: session.expiresAt, createdAt: session.createdAt, fresh: session.fresh },
   };
+  // Remembered as not fresh: the renewed cookie goes out with this answer only.
+  const lifetime = Math.min(session.expiresAt.getTime(), absoluteEnd) - Date.now();
+  validated.set(id, { user: result.user, session: { ...result.session, fresh: false } }, ticket, lifetime);
+  return result;
+}
+
+/** Forgets remembered sessions of one user (their account changed), or all of them. */
+export function forgetSessionsOf(userId?: string): void {
+  validated.forget(userId === undefined ? undefined : (_, v) => v.user.id === userId);
 }
 
 /** Ends one session by its stored id. */
-export function invalidateSession(sessionId: string): Promise<void> {
-  return auth().invalidateSession(sessionId);
+export async function invalidateSession(sessionId: string): Promise<void> {
+  await auth().invalidateSession(sessionId);
+  validated.forget((id) => id === sessionId); // after the delete: a lookup that raced it is not stored
 }
 
 /** Ends every session of a user (disabling an account, resetting a password). */
-export function invalidateUserSessions(userId: string): Promise<void> {
-  return auth().invalidateUserSessions(userId);
+export async function invalidateUserSessions(userId: string): Promise<void> {
+  await auth().invalidateUserSessions(userId);
+  forgetSessionsOf(userId);
 }
 
 /** Sets the session cookie; its lifetime never passes the absolute expiry. */

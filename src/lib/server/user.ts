@@ -10,7 +10,7 @@ import { users, type User } from "./db/schema";
 import { hashPassword, passwordProblem, verifyAgainstDummy, verifyPassword } from "./password";
 import { ApiError } from "./route";
 import type { SiteRole } from "./roles";
-import { invalidateUserSessions } from "./session";
+import { forgetSessionsOf, invalidateUserSessions } from "./session";
 
 /** An e-mail address as stored: trimmed and lower-cased (RFC 5321 caps a path at 254 characters). */
 export const emailSchema = z
@@ -128,7 +128,7 @@ export async function markEmailVerified(userId: string, email: string): Promise<
       .returning({ id: users.id });
     if (done.length > 0) await audit(tx, { actorId: userId, action: "user.email_verified" });
     return done.length > 0;
-  });
+  }).finally(() => forgetSessionsOf(userId)); // sessions carry emailVerified
 }
 
 /** Sets a new password and ends every session of the account. */
@@ -208,5 +208,6 @@ export async function updateUserByAdmin(
     return after!;
   });
   if (updated.disabledAt) await invalidateUserSessions(userId);
+  forgetSessionsOf(userId); // sessions carry the site role
   return publicUser(updated);
 }

@@ -82,6 +82,9 @@ export const grooves = pgTable(
     // Library sorting: by title (case-insensitive) and by creation time, with the id as tie-break.
     index("grooves_title_idx").on(sql`lower(${t.title})`, t.id),
     index("grooves_created_idx").on(t.createdAt, t.id),
+    // Library search (ILIKE '%words%' on title or description): trigram indexes (pg_trgm, created by the migration).
+    index("grooves_title_trgm_idx").using("gin", sql`${t.title} gin_trgm_ops`),
+    index("grooves_description_trgm_idx").using("gin", sql`${t.description} gin_trgm_ops`),
   ],
 );
 
