@@ -6,7 +6,7 @@
 // BENCH_ADMIN_URL=postgres://…/postgres uses another server), builds the app into .data/bench-dist (or uses
 // BENCH_SERVER_ENTRY), runs, then drops the scratch database. BENCH_SECONDS sets each run's length (default 10).
 import { createHash, randomBytes } from "node:crypto";
-import { readFileSync } from "node:fs";
+import { readdirSync, readFileSync } from "node:fs";
 import { cpus } from "node:os";
 import autocannon from "autocannon";
 import canonicalize from "canonicalize";
@@ -98,7 +98,8 @@ async function seed(pool) {
   await pool.query(
     `insert into collaborators (groove_id, user_id, role) select id, 'usr_bench_0', 'editor' from grooves where owner_id <> 'usr_bench_0' order by id limit 300`,
   );
-  await pool.query("analyze");
+  // As a live database would be: vacuumed (visibility map set, so index-only scans apply) and analysed.
+  await pool.query("vacuum analyze");
   say(`seeded ${GROOVES} grooves, 100 users in ${Math.round(performance.now() - started)} ms`);
 }
 
@@ -119,6 +120,24 @@ function cpuSeconds(pid) {
   }
 }
 
+/** CPU seconds used so far by every PostgreSQL process (backends and helpers) on this machine (Linux; null elsewhere). */
+function postgresCpuSeconds() {
+  try {
+    let total = 0;
+    for (const pid of readdirSync("/proc")) {
+      if (!/^\d+$/.test(pid)) continue;
+      try {
+        if (readFileSync(`/proc/${pid}/comm`, "utf8").trim() === "postgres") total += cpuSeconds(pid) ?? 0;
+      } catch {
+        // the process ended meanwhile
+      }
+    }
+    return total;
+  } catch {
+    return null;
+  }
+}
+
 /** Load average over the last minute: latency figures mean little when other work shares the cores. */
 function loadAverage() {
   try {
@@ -131,14 +150,20 @@ function loadAverage() {
 /** Runs autocannon and adds the server's CPU time per request (a figure that other load on the machine disturbs less). */
 async function measure(opts) {
   const before = cpuSeconds(server.pid);
+  const pgBefore = postgresCpuSeconds();
   const result = await cannon(opts);
   const after = cpuSeconds(server.pid);
-  result.serverCpuMsPerRequest = before === null || after === null ? null : ((after - before) * 1000) / Math.max(1, result.requests.total);
+  const pgAfter = postgresCpuSeconds();
+  const perRequest = (a, b) => (a === null || b === null ? null : ((b - a) * 1000) / Math.max(1, result.requests.total));
+  result.serverCpuMsPerRequest = perRequest(before, after);
+  result.postgresCpuMsPerRequest = perRequest(pgBefore, pgAfter);
   return result;
 }
 
 function report(name, r, target) {
-  const cpu = r.serverCpuMsPerRequest === null ? "" : `, server CPU ${r.serverCpuMsPerRequest.toFixed(2)} ms/request`;
+  const cpu =
+    (r.serverCpuMsPerRequest === null ? "" : `, server CPU ${r.serverCpuMsPerRequest.toFixed(2)} ms/request`) +
+    (r.postgresCpuMsPerRequest === null ? "" : `, PostgreSQL CPU ${r.postgresCpuMsPerRequest.toFixed(2)} ms/request`);
   const line = `${name}: ${Math.round(r.requests.average)} req/s, latency p50 ${r.latency.p50} ms, p90 ${r.latency.p90} ms, p99 ${r.latency.p99} ms, max ${r.latency.max} ms; ${r.requests.total} requests, ${r.non2xx} non-2xx, ${r.errors} errors, ${r.timeouts} timeouts${cpu}; load average ${loadAverage()} on ${cpus().length} cores`;
   const ok = r.latency.p99 < target && r.non2xx === 0 && r.errors === 0;
   say(`${line} → ${ok ? "within" : "OVER"} the target p99 < ${target} ms`);
@@ -169,8 +194,6 @@ try {
   const first = await (await fetch(`${base}/api/grooves?pageSize=1`, { headers })).json();
   say(`server at ${base}; the bench user sees ${first.total}${first.totalCapped ? "+" : ""} grooves (own, shared, public)`);
 
-  // Warm-up, then the measured runs.
-  await cannon({ url: `${base}/api/grooves`, headers, duration: 2 });
   const listPaths = [
     "/api/grooves?pageSize=25",
     "/api/grooves?pageSize=25&page=7",
@@ -182,6 +205,8 @@ try {
     "/api/grooves?pageSize=25&scope=public&sort=created&dir=asc",
   ];
   let n = 0;
+  // Warm-up over every query shape (JIT, each pool connection's prepared statements), then the measured runs.
+  await cannon({ url: base, headers, duration: 2, requests: [{ method: "GET", setupRequest: (req) => ({ ...req, path: listPaths[n++ % listPaths.length] }) }] });
   const list = await measure({
     url: base,
     headers,
