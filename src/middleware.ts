@@ -3,6 +3,7 @@
 import { defineMiddleware, sequence } from "astro:middleware";
 import { answerStored, conditional, freshPage, readStoreDirective, STORE_HEADER, storePage } from "./lib/server/embed-cache";
 import { installEmbedFastLane } from "./lib/server/embed-fast-lane";
+import { installListFastLane } from "./lib/server/list-fast-lane";
 import { error } from "./lib/server/http";
 import { forgetAfterWrite } from "./lib/server/read-cache";
 import { clearSessionCookie, readSessionToken, setSessionCookie, validateSessionToken } from "./lib/server/session";
@@ -59,8 +60,9 @@ const auth = defineMiddleware(async (ctx, next) => {
   return next();
 });
 
-// Stored embed pages are also answered before the adapter and Astro (see lib/server/embed-fast-lane.ts).
+// Stored embed pages and the library list are also answered before the adapter and Astro (lib/server/fast-lanes.ts).
 installEmbedFastLane();
+installListFastLane();
 
 /** Embed pages whose whole response is stored and served without rendering (see lib/server/embed-cache.ts). */
 const STORED_PAGE = /^\/embed\/(?:[vg]\/[A-Za-z0-9_-]{1,64}|compare)\/?$/;

@@ -136,6 +136,39 @@ describe("list totals", () => {
   });
 });
 
+describe("the list fast lane (lib/server/list-fast-lane.ts)", () => {
+  // The lane answers only for anonymous visitors and remembered sessions; the first request of a session goes through
+  // Astro (which validates and remembers it), the next through the lane. Astro streams its answer (chunked), the lane
+  // sends a content-length: that tells the two apart here.
+  it("answers exactly what the Astro route answers, and leaves errors and unknown sessions to the route", async () => {
+    const owner = await createUser({ label: "lane" });
+    await createGroove(owner.id, { title: "Lane one", tags: ["lane"] });
+    await createGroove(owner.id, { title: "Lane two", visibility: "public" });
+    const cookie = await sessionFor(owner.id);
+    const path = "/api/grooves?scope=mine&sort=title&pageSize=5";
+    const viaAstro = await api("GET", path, { cookie });
+    const viaLane = await api("GET", path, { cookie });
+    expect(viaAstro.headers.get("content-length")).toBeNull();
+    expect(viaLane.headers.get("content-length")).toBe(String(Buffer.byteLength(viaLane.text)));
+    expect(viaLane.status).toBe(200);
+    expect(viaLane.text).toBe(viaAstro.text);
+    expect(viaLane.body.items.map((i: { title: string }) => i.title)).toEqual(["Lane one", "Lane two"]);
+    for (const h of ["content-type", "cache-control"]) expect(viaLane.headers.get(h)).toBe(viaAstro.headers.get(h));
+    // A bad query with a remembered session: the route's 400 with fields.
+    const bad = await api("GET", "/api/grooves?pageSize=0", { cookie });
+    expect(bad.status).toBe(400);
+    expect(Object.keys(errorOf(bad).fields ?? {})).toEqual(["pageSize"]);
+    // An unknown session: the middleware clears the cookie and the list is the anonymous one.
+    const stranger = await api("GET", path, { cookie: "x".repeat(27) });
+    expect(stranger.status).toBe(200);
+    expect(stranger.headers.getSetCookie().some((c) => /^tactus_session=;/.test(c) || /Max-Age=0/i.test(c))).toBe(true);
+    // Anonymous: answered by the lane, public grooves only.
+    const anon = await api("GET", `/api/grooves?owner=${owner.id}`);
+    expect(anon.headers.get("content-length")).not.toBeNull();
+    expect(anon.body.items.map((i: { title: string }) => i.title)).toEqual(["Lane two"]);
+  });
+});
+
 describe("soft delete and restore", () => {
   it("moves a groove to the trash, hides it, and restores it within 30 days", async () => {
     const g = await createGroove(owner.id, { title: `Trash me ${uid(5)}` });

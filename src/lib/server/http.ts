@@ -10,7 +10,8 @@ export interface ErrorBody {
   error: { code: string; message: string; fields?: FieldErrors };
 }
 
-const JSON_HEADERS = { "content-type": "application/json; charset=utf-8", "cache-control": "no-store" };
+/** Headers of every JSON answer (the fast lanes send the same). */
+export const JSON_HEADERS = { "content-type": "application/json; charset=utf-8", "cache-control": "no-store" };
 
 /**
  * A JSON response.

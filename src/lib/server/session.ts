@@ -137,6 +137,15 @@ export async function validateSessionToken(token: string): Promise<SessionValida
   return result;
 }
 
+/**
+ * The remembered answer for a cookie token, without asking the database (undefined when none is remembered). Never
+ * fresh: a session that needs its cookie sent again is answered by `validateSessionToken` only.
+ */
+export function rememberedSession(token: string): ValidSession | undefined {
+  if (!/^[A-Za-z0-9_-]{20,64}$/.test(token)) return undefined;
+  return validated.get(hashToken(token));
+}
+
 /** Forgets remembered sessions of one user (their account changed), or all of them. */
 export function forgetSessionsOf(userId?: string): void {
   validated.forget(userId === undefined ? undefined : (_, v) => v.user.id === userId);

@@ -5,21 +5,11 @@
 import type { APIRoute } from "astro";
 import { z } from "zod";
 import { emptyGroove, parseGroove } from "../../../lib/rhythm/document";
-import { createGroove, descriptionSchema, listGrooves, tagsSchema, titleSchema, visibilitySchema } from "../../../lib/server/grooves";
+import { createGroove, descriptionSchema, tagsSchema, titleSchema, visibilitySchema } from "../../../lib/server/grooves";
 import { error, json, parseBody } from "../../../lib/server/http";
-import { parseQuery, requireUser, route } from "../../../lib/server/route";
+import { listForRequest } from "../../../lib/server/list-request";
+import { requireUser, route } from "../../../lib/server/route";
 import { MAX_DOCUMENT_BYTES } from "../../../lib/server/versions";
-
-const ListQuery = z.object({
-  scope: z.enum(["all", "mine", "shared", "public", "trash"]).default("all"),
-  q: z.string().trim().max(200).optional(),
-  tag: z.string().trim().max(32).optional(),
-  owner: z.string().regex(/^([A-Za-z0-9_-]{1,64})$/, "owner is a user id or 'me'").optional(),
-  sort: z.enum(["updated", "created", "title"]).default("updated"),
-  dir: z.enum(["asc", "desc"]).optional(),
-  page: z.coerce.number().int().min(1).max(100_000).default(1),
-  pageSize: z.coerce.number().int().min(1).max(100).default(25),
-});
 
 const Create = z.object({
   title: titleSchema,
@@ -30,16 +20,8 @@ const Create = z.object({
   message: z.string().trim().max(500).default("First version"),
 });
 
-export const GET = route(async (ctx) => {
-  const q = parseQuery(ctx.url, ListQuery);
-  const result = await listGrooves(ctx.locals.user, {
-    ...q,
-    q: q.q || undefined,
-    tag: q.tag || undefined,
-    dir: q.dir ?? (q.sort === "title" ? "asc" : "desc"),
-  });
-  return json(result);
-}) satisfies APIRoute;
+// Answered by the list fast lane too (lib/server/list-fast-lane.ts), through the same listForRequest.
+export const GET = route(async (ctx) => json(await listForRequest(ctx.locals.user, ctx.url))) satisfies APIRoute;
 
 export const POST = route(async (ctx) => {
   const user = requireUser(ctx);
