@@ -119,6 +119,18 @@ export async function validateSessionToken(token: string): Promise<SessionValida
   const id = hashToken(token);
   const known = validated.get(id);
   if (known) return known;
+  // One lookup at a time per session: the requests a page fires together share it.
+  let pending = lookups.get(id);
+  if (!pending) {
+    pending = lookUp(id).finally(() => lookups.delete(id));
+    lookups.set(id, pending);
+  }
+  return pending;
+}
+
+const lookups = new Map<string, Promise<SessionValidation>>();
+
+async function lookUp(id: string): Promise<SessionValidation> {
   const ticket = validated.ticket();
   const { session, user } = await auth().validateSession(id);
   if (!session || !user) return { user: null, session: null };
@@ -131,7 +143,7 @@ export async function validateSessionToken(token: string): Promise<SessionValida
     user: { id: user.id, email: user.email, displayName: user.displayName, siteRole: user.siteRole, emailVerified: user.emailVerified },
     session: { id: session.id, expiresAt: session.expiresAt, createdAt: session.createdAt, fresh: session.fresh },
   };
-  // Remembered as not fresh: the renewed cookie goes out with this answer only.
+  // Remembered as not fresh: the renewed cookie goes out with the answers that shared this lookup only.
   const lifetime = Math.min(session.expiresAt.getTime(), absoluteEnd) - Date.now();
   validated.set(id, { user: result.user, session: { ...result.session, fresh: false } }, ticket, lifetime);
   return result;

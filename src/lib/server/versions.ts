@@ -1,9 +1,12 @@
 // Groove versions: append-only and immutable. Each save names the version it was based on; a save whose base is not
 // the groove's latest version is refused with 409 and the latest version, so nothing is silently overwritten.
 //
-// Concurrency: the save runs in one transaction that first locks the groove row (SELECT … FOR UPDATE), so saves to
-// one groove are serialised; the version number is the latest's + 1, and a unique index on (groove_id, number)
-// guards the chain against gaps and duplicates even if this code were wrong.
+// Concurrency: a save is one SQL statement whose first step moves the groove's latest-version pointer only if it
+// still names the base version (UPDATE … WHERE latest_version_id = base). PostgreSQL row-locks the groove for that
+// update and re-checks the condition after any save that committed first, so of two saves on one base exactly one
+// moves the pointer and inserts its version; the other finds nothing to update and answers 409. The version number is
+// the base's + 1, and a unique index on (groove_id, number) guards the chain against gaps and duplicates even if
+// this code were wrong.
 import { createHash } from "node:crypto";
 import canonicalize from "canonicalize";
 import { and, desc, eq, lt, sql } from "drizzle-orm";
@@ -115,47 +118,53 @@ export async function saveVersion(
   meta: { action: "version.saved" | "version.restored"; restoredFrom?: { id: string; number: number } } = { action: "version.saved" },
 ): Promise<VersionWithDocument> {
   const hash = contentHash(input.document);
-  return getDb().transaction(async (tx) => {
-    // The row lock serialises saves to this groove; the latest version id read under it is current.
-    const { groove } = await authorizeGroove(actor, grooveId, "edit", tx, { lock: true });
-    const latestId = groove.latestVersionId ?? null;
-    if (latestId !== input.baseVersionId) {
-      const latest = latestId ? await getVersion(grooveId, latestId, tx) : null;
-      const message = latest
-        ? `Version ${latest.number} was saved by ${latest.author?.displayName ?? "someone"} after the version you started from: compare, then save again on top of it.`
-        : "The version you started from is not this groove's latest version.";
-      throw new ApiError(409, "version_conflict", message, { baseVersionId: ["not the latest version"] }, { latest });
-    }
-    const id = newVersionId();
-    const now = new Date();
-    const extra = meta.restoredFrom ? { restoredFrom: meta.restoredFrom } : {};
-    // One round trip: the version (numbered after its parent), the groove's pointer, and the audit row.
-    const result = await tx.execute<{ number: number }>(sql`
-      with v as (
-        insert into ${grooveVersions} (id, groove_id, number, document, content_hash, author_id, message, parent_version_id, created_at)
-        values (${id}, ${grooveId}, coalesce((select number from ${grooveVersions} where id = ${latestId}), 0) + 1,
-                ${JSON.stringify(input.document)}::jsonb, ${hash}, ${actor.id}, ${input.message}, ${latestId}, ${now})
-        returning number
-      ), g as (
-        update ${grooves} set latest_version_id = ${id}, updated_at = ${now} where id = ${grooveId}
-      ), a as (
-        insert into ${auditEvents} (actor_id, action, groove_id, version_id, details)
-        select ${actor.id}, ${meta.action}, ${grooveId}, ${id}, jsonb_build_object('number', v.number, 'contentHash', ${hash}::text) || ${JSON.stringify(extra)}::jsonb from v
-      )
-      select number from v`);
-    const number = Number(result.rows[0]!.number);
-    return {
-      id,
-      grooveId,
-      number,
-      contentHash: hash,
-      message: input.message,
-      author: { id: actor.id, displayName: actor.displayName },
-      parentVersionId: latestId,
-      createdAt: now.toISOString(),
-      document: input.document,
-    };
-  });
+  // Who may edit is checked first (401/403/404); the statement below then appends only on top of the base version.
+  await authorizeGroove(actor, grooveId, "edit");
+  const id = newVersionId();
+  const now = new Date();
+  const base = input.baseVersionId;
+  const extra = meta.restoredFrom ? { restoredFrom: meta.restoredFrom } : {};
+  // One round trip: the pointer (only if it still names the base), the version numbered after it, the audit row.
+  const result = await getDb().execute<{ number: number }>(sql`
+    with g as (
+      update ${grooves} set latest_version_id = ${id}, updated_at = ${now}
+      where id = ${grooveId} and deleted_at is null and latest_version_id = ${base}
+      returning id
+    ), v as (
+      insert into ${grooveVersions} (id, groove_id, number, document, content_hash, author_id, message, parent_version_id, created_at)
+      select ${id}, g.id, coalesce((select number from ${grooveVersions} where id = ${base}), 0) + 1,
+             ${JSON.stringify(input.document)}::jsonb, ${hash}, ${actor.id}, ${input.message}, ${base}, ${now}
+      from g
+      returning number
+    ), a as (
+      insert into ${auditEvents} (actor_id, action, groove_id, version_id, details)
+      select ${actor.id}, ${meta.action}, ${grooveId}, ${id}, jsonb_build_object('number', v.number, 'contentHash', ${hash}::text) || ${JSON.stringify(extra)}::jsonb from v
+    )
+    select number from v`);
+  const row = result.rows[0];
+  if (!row) throw await conflict(grooveId);
+  return {
+    id,
+    grooveId,
+    number: Number(row.number),
+    contentHash: hash,
+    message: input.message,
+    author: { id: actor.id, displayName: actor.displayName },
+    parentVersionId: base,
+    createdAt: now.toISOString(),
+    document: input.document,
+  };
+}
+
+/** Why a save on top of a base version appended nothing: the groove is gone (404) or another save came first (409). */
+async function conflict(grooveId: string): Promise<ApiError> {
+  const [groove] = await getDb().select({ latestVersionId: grooves.latestVersionId, deletedAt: grooves.deletedAt }).from(grooves).where(eq(grooves.id, grooveId));
+  if (!groove || groove.deletedAt) return new ApiError(404, "not_found", "No groove has this id.");
+  const latest = groove.latestVersionId ? await getVersion(grooveId, groove.latestVersionId) : null;
+  const message = latest
+    ? `Version ${latest.number} was saved by ${latest.author?.displayName ?? "someone"} after the version you started from: compare, then save again on top of it.`
+    : "The version you started from is not this groove's latest version.";
+  return new ApiError(409, "version_conflict", message, { baseVersionId: ["not the latest version"] }, { latest });
 }
 
 /**
