@@ -4,7 +4,9 @@ import { defineMiddleware, sequence } from "astro:middleware";
 import { answerStored, conditional, freshPage, readStoreDirective, STORE_HEADER, storePage } from "./lib/server/embed-cache";
 import { installEmbedFastLane } from "./lib/server/embed-fast-lane";
 import { installListFastLane } from "./lib/server/list-fast-lane";
+import { installSaveFastLane } from "./lib/server/save-fast-lane";
 import { error } from "./lib/server/http";
+import { isCrossSiteWrite } from "./lib/server/origin";
 import { forgetAfterWrite } from "./lib/server/read-cache";
 import { clearSessionCookie, readSessionToken, setSessionCookie, validateSessionToken } from "./lib/server/session";
 import { forgetGrooveStates } from "./lib/server/sharing";
@@ -12,26 +14,13 @@ import { embedCacheKey } from "./lib/share/embed-options";
 
 const SAFE_METHODS = new Set(["GET", "HEAD", "OPTIONS"]);
 
-/**
- * CSRF defence for every state-changing request, JSON included (Astro's own checkOrigin covers form posts only):
- * a browser sends Origin (and Sec-Fetch-Site) with such requests, and a request from another site is refused.
- * Requests without either header (curl, server-to-server) carry no ambient browser cookies worth forging.
- */
+/** Refuses cross-site writes (see lib/server/origin.ts). */
 const sameOriginWrites = defineMiddleware((ctx, next) => {
   if (SAFE_METHODS.has(ctx.request.method)) return next();
   const headers = ctx.request.headers;
-  const origin = headers.get("origin");
-  const site = headers.get("sec-fetch-site");
-  // Compared with the Host the browser itself sent (a cross-site page cannot choose it), not with ctx.url, which
-  // Astro builds from its allowedDomains setting.
-  const hosts = [headers.get("host"), headers.get("x-forwarded-host"), ctx.url.host].filter(Boolean);
-  let originHost: string | null = null;
-  try {
-    originHost = origin !== null && origin !== "null" ? new URL(origin).host : null;
-  } catch {
-    originHost = null;
-  }
-  if ((origin !== null && (originHost === null || !hosts.includes(originHost))) || site === "cross-site" || site === "same-site") {
+  // Compared with the Host the browser itself sent, not with ctx.url, which Astro builds from its allowedDomains setting.
+  const hosts = [headers.get("host"), headers.get("x-forwarded-host"), ctx.url.host].filter((h): h is string => Boolean(h));
+  if (isCrossSiteWrite(headers.get("origin"), headers.get("sec-fetch-site"), hosts)) {
     return error(403, "cross_origin", "Cross-site requests are not allowed: use Tactus from its own pages.");
   }
   return next();
@@ -60,9 +49,11 @@ const auth = defineMiddleware(async (ctx, next) => {
   return next();
 });
 
-// Stored embed pages and the library list are also answered before the adapter and Astro (lib/server/fast-lanes.ts).
+// Stored embed pages, the library list and saves are also answered before the adapter and Astro
+// (lib/server/fast-lanes.ts).
 installEmbedFastLane();
 installListFastLane();
+installSaveFastLane();
 
 /** Embed pages whose whole response is stored and served without rendering (see lib/server/embed-cache.ts). */
 const STORED_PAGE = /^\/embed\/(?:[vg]\/[A-Za-z0-9_-]{1,64}|compare)\/?$/;

@@ -169,6 +169,45 @@ describe("the list fast lane (lib/server/list-fast-lane.ts)", () => {
   });
 });
 
+describe("the save fast lane (lib/server/save-fast-lane.ts)", () => {
+  // As for the list lane: a session's first request goes through Astro, later ones (remembered) through the lane,
+  // which sends a content-length where Astro streams.
+  it("saves, refuses and explains exactly as the route does", async () => {
+    const owner = await createUser({ label: "saver" });
+    const g = await createGroove(owner.id, { title: "Lane saves" });
+    const cookie = await sessionFor(owner.id);
+    const save = (base: string, document: unknown, headers: Record<string, string> = {}) =>
+      api("POST", `/api/grooves/${g.grooveId}/versions`, { cookie, body: { baseVersionId: base, document, message: "lane" }, headers });
+    const viaAstro = await save(g.latestVersionId, sampleDocument(5));
+    expect(viaAstro.status).toBe(201);
+    expect(viaAstro.headers.get("content-length")).toBeNull();
+    const viaLane = await save(viaAstro.body.id, sampleDocument(6));
+    expect(viaLane.status).toBe(201);
+    expect(viaLane.headers.get("content-length")).toBe(String(Buffer.byteLength(viaLane.text)));
+    expect(Object.keys(viaLane.body).sort()).toEqual(Object.keys(viaAstro.body).sort());
+    expect([viaAstro.body.number, viaLane.body.number]).toEqual([3, 4]);
+    expect(viaLane.body.parentVersionId).toBe(viaAstro.body.id);
+    const stored = (await db().query("select document from groove_versions where id = $1", [viaLane.body.id])).rows[0].document;
+    expect(viaLane.body.contentHash).toBe(contentHash(stored));
+    expect(viaLane.headers.get("location")).toBe(`/api/grooves/${g.grooveId}/versions/${viaLane.body.id}`);
+    for (const h of ["content-type", "cache-control"]) expect(viaLane.headers.get(h)).toBe(viaAstro.headers.get(h));
+    // A stale base: 409 with the latest version; an invalid document: 400 with field paths; nothing written by either.
+    const stale = await save(viaAstro.body.id, sampleDocument(7));
+    expect(stale.status).toBe(409);
+    expect(errorOf(stale).code).toBe("version_conflict");
+    expect(stale.body.latest.id).toBe(viaLane.body.id);
+    const invalid = await save(viaLane.body.id, { ...sampleDocument(7), bars: -1 });
+    expect(invalid.status).toBe(400);
+    expect(Object.keys(errorOf(invalid).fields ?? {})).toEqual(["document.bars"]);
+    // Cross-site: declined by the lane, refused by the middleware.
+    const crossSite = await save(viaLane.body.id, sampleDocument(7), { origin: "http://evil.example" });
+    expect(crossSite.status).toBe(403);
+    expect(errorOf(crossSite).code).toBe("cross_origin");
+    const chain = (await db().query("select number from groove_versions where groove_id = $1 order by number", [g.grooveId])).rows.map((r) => r.number);
+    expect(chain).toEqual([1, 2, 3, 4]);
+  });
+});
+
 describe("soft delete and restore", () => {
   it("moves a groove to the trash, hides it, and restores it within 30 days", async () => {
     const g = await createGroove(owner.id, { title: `Trash me ${uid(5)}` });

@@ -33,17 +33,23 @@ export function errorResponse(e: ApiError): Response {
  * @example export const GET = route(async (ctx) => json(await listGrooves(ctx.locals.user, ...)));
  */
 export function route(handler: (ctx: APIContext) => Promise<Response>): (ctx: APIContext) => Promise<Response> {
-  return async (ctx) => {
-    try {
-      return await handler(ctx);
-    } catch (e) {
-      if (e instanceof ApiError) return errorResponse(e);
-      // The client hung up mid-request (its body stream was cut): nobody is left to answer, nothing to log.
-      if (ctx.request.signal?.aborted) return new Response(null, { status: 499 });
-      console.error(`${ctx.request.method} ${ctx.url.pathname} failed:`, e);
-      return error(500, "internal_error", "Something went wrong on the server; nothing was changed by this request.");
-    }
-  };
+  return (ctx) => answerErrors(() => handler(ctx), { what: `${ctx.request.method} ${ctx.url.pathname}`, aborted: () => ctx.request.signal?.aborted === true });
+}
+
+/**
+ * Runs a handler the way every route does (route() and the fast lanes): ApiErrors become their response, anything
+ * else a logged 500 in the error shape (or 499 with nothing logged when the client already hung up).
+ */
+export async function answerErrors(run: () => Promise<Response>, opts: { what: string; aborted: () => boolean }): Promise<Response> {
+  try {
+    return await run();
+  } catch (e) {
+    if (e instanceof ApiError) return errorResponse(e);
+    // The client hung up mid-request (its body stream was cut): nobody is left to answer, nothing to log.
+    if (opts.aborted()) return new Response(null, { status: 499 });
+    console.error(`${opts.what} failed:`, e);
+    return error(500, "internal_error", "Something went wrong on the server; nothing was changed by this request.");
+  }
 }
 
 /** The signed-in user, or a 401. */
