@@ -10,6 +10,7 @@ import "../../styles/notation-fonts.css";
 import type { NotationScore } from "../../lib/rhythm/notation/model";
 import type { RenderOptions, ScoreLayout } from "./render";
 import { NotationRenderer, type PlayPosition } from "./view";
+import { forgetTextMetrics } from "./vexflow";
 
 export { renderScoreSvg, type RenderOptions, type RenderResult, type ScoreLayout, type BarLayout, type SystemLayout } from "./render";
 export { NotationRenderer, type PlayPosition, type UpdateStats } from "./view";
@@ -26,6 +27,8 @@ export function loadNotationFonts(): Promise<void> {
   if (fontsLoaded) return Promise.resolve();
   fontsReady ??= Promise.all(FONT_FACES.map((f) => document.fonts.load(f))).then((faces) => {
     fontsLoaded = true;
+    // Anything measured before now was measured with fallback fonts.
+    forgetTextMetrics();
     if (faces.some((list) => list.length === 0)) {
       console.warn("Tactus notation: Bravura/Academico are not declared on this page; the notation spacing may be off.");
     }

@@ -194,8 +194,12 @@ export function planScore(score: NotationScore, opts: RenderOptions, cache: BarC
     keys,
   });
 
+  // A bar is measured with the flags it will most likely be drawn with (a system start where the kept lines
+  // start one), so the build made to measure it is also the one drawn.
+  const kept = keep?.signature === planSignature(opts, keys, from) ? keep.lines : [];
+  const keptStarts = new Set(kept.map((line) => line[0]));
   const notes: number[] = [];
-  for (let i = from; i < to; i++) notes.push(cache.notesWidth(score, score.bars[i]!, flagsFor(i, i === from)));
+  for (let i = from; i < to; i++) notes.push(cache.notesWidth(score, score.bars[i]!, flagsFor(i, i === from || keptStarts.has(i))));
   const startW = (i: number, start: boolean) => cache.startWidth(score, { systemStart: start, timeSignature: i === from, keys });
 
   // Line breaking with equal note room per bar. Systems of the previous drawing (`keep`) stay as they were
@@ -232,7 +236,7 @@ export function planScore(score: NotationScore, opts: RenderOptions, cache: BarC
     }
   };
   let i = from;
-  for (const line of keep?.signature === planSignature(opts, keys, from) ? keep.lines : []) {
+  for (const line of kept) {
     if (line[0] !== i || line.length === 0 || line.length > maxBars || line[line.length - 1]! >= to) break;
     const f = fits(line);
     if (f.ok) lines.push({ bars: [...line], area: (avail - f.fixed) / line.length });
