@@ -96,22 +96,150 @@ class InkContext extends SVGContext {
   }
 }
 
-/** A drawing context on a detached element, drawing in currentColor. */
-function inkContext(doc: Document): InkContext {
-  const ctx = new InkContext(doc.createElement("div"));
+/** Attributes VexFlow's SVG context never writes on a path. */
+const NOT_ON_PATHS = new Set(["x", "y", "width", "height", "font-family", "font-weight", "font-style", "font-size"]);
+
+/** An element that FlatContext writes once for many strokes or glyphs. */
+interface Merged {
+  readonly kind: "path" | "text";
+  readonly attrs: readonly (readonly [string, string])[];
+  readonly parts: string[];
+  readonly xs: number[];
+  readonly ys: number[];
+}
+
+/**
+ * For the page: the same picture in far fewer elements, each of which the browser must create, style and
+ * lay out whenever a bar is redrawn.
+ *
+ * - No VexFlow wrapper groups (a <g> with a class, an id and the colours again around nearly every path and
+ *   glyph): each element carries the class of the group it was drawn in ("vf-notehead", "vf-stem", …).
+ * - Colours only where they differ from the drawing's own <svg> (createInkSvg), which they inherit.
+ * - Strokes that share every attribute become one path of several subpaths (a bar's staff lines, stems and
+ *   ledger lines), and one-glyph texts that share every attribute become one text that places each glyph
+ *   itself with SVG's x and y lists (a bar's noteheads). Everything is drawn in currentColor, so the order in
+ *   which these merged elements come does not change what shows.
+ */
+class FlatContext extends InkContext {
+  /** Per open group: its class, and whether a real <g> stands for it (a rotation needs one). */
+  private readonly open: { cls: string; real: boolean }[] = [];
+  private readonly merged = new Map<string, Merged>();
+
+  /** Elements inherit these from the drawing's <svg> (createInkSvg), so they need not repeat them. */
+  inheritInk(): void {
+    const root = this.groupAttributes[0]!;
+    root.fill = "currentColor";
+    root.stroke = "currentColor";
+  }
+
+  override openGroup(cls?: string): SVGGElement {
+    this.open.push({ cls: cls ? `vf-${cls}` : (this.open.at(-1)?.cls ?? ""), real: false });
+    return this.parent;
+  }
+
+  override closeGroup(): void {
+    if (this.open.pop()?.real) super.closeGroup();
+  }
+
+  override openRotation(angleDegrees: number, x: number, y: number): void {
+    super.openGroup().setAttribute("transform", `translate(${x},${y}) rotate(${angleDegrees}) translate(-${x},-${y})`);
+    this.open.push({ cls: this.open.at(-1)?.cls ?? "", real: true });
+  }
+
+  override add(elem: SVGElement): void {
+    const cls = this.open.at(-1)?.cls;
+    if (cls) elem.setAttribute("class", cls);
+    super.add(elem);
+  }
+
+  override stroke(): this {
+    if (!this.mergeable()) return super.stroke();
+    this.mergeInto("path", { ...this.attributes, fill: "none" }).parts.push(this.path);
+    return this;
+  }
+
+  override fillText(text: string, x: number, y: number): this {
+    if (text.length !== 1 || !this.mergeable()) return super.fillText(text, x, y);
+    const m = this.mergeInto("text", { ...this.attributes, stroke: "none" });
+    m.parts.push(text);
+    m.xs.push(this.round(x));
+    m.ys.push(this.round(y));
+    return this;
+  }
+
+  /** Write the merged paths and texts (after drawing, before the elements are taken from the context). */
+  flush(): void {
+    for (const m of this.merged.values()) {
+      const el = this.create(m.kind);
+      for (const [name, value] of m.attrs) el.setAttribute(name, value);
+      if (m.kind === "path") el.setAttribute("d", m.parts.join(""));
+      else {
+        el.setAttribute("x", m.xs.join(" "));
+        el.setAttribute("y", m.ys.join(" "));
+        el.textContent = m.parts.join("");
+      }
+      this.svg.appendChild(el);
+    }
+    this.merged.clear();
+  }
+
+  /** Merging needs the drawing's own attributes as the parent's (not inside a rotation) and no shadow. */
+  private mergeable(): boolean {
+    return !this.open.some((g) => g.real) && !(Number(this.attributes.shadowBlur) > 0);
+  }
+
+  /**
+   * The merged element for these attributes: the ones VexFlow's context would write on the element (set,
+   * and different from the parent's), colours as tidySvg leaves them, and the class.
+   */
+  private mergeInto(kind: "path" | "text", attributes: Record<string, unknown>): Merged {
+    const parent = this.groupAttributes[this.groupAttributes.length - 1]!;
+    const attrs: [string, string][] = [];
+    for (const name in attributes) {
+      if (kind === "path" && NOT_ON_PATHS.has(name)) continue;
+      let value = attributes[name];
+      if (!value || value == parent[name]) continue;
+      if ((name === "fill" || name === "stroke") && value !== "none") value = "currentColor";
+      if (value == parent[name]) continue;
+      attrs.push([name, String(value)]);
+    }
+    const cls = this.open.at(-1)?.cls;
+    if (cls) attrs.push(["class", cls]);
+    const key = `${kind}|${attrs.map(([n, v]) => `${n}=${v}`).join("|")}`;
+    let m = this.merged.get(key);
+    if (!m) this.merged.set(key, (m = { kind, attrs, parts: [], xs: [], ys: [] }));
+    return m;
+  }
+}
+
+/** A drawing context on a detached element, drawing in currentColor (flat: see FlatContext). */
+function inkContext(doc: Document, flat = false): InkContext {
+  const ctx = flat ? new FlatContext(doc.createElement("div")) : new InkContext(doc.createElement("div"));
   ctx.setFillStyle("currentColor");
   ctx.setStrokeStyle("currentColor");
+  if (ctx instanceof FlatContext) ctx.inheritInk();
   return ctx;
 }
 
-/** Draw a bar into a fresh `g.tx-bar` (system coordinates). */
-export function drawBarGroup(doc: Document, score: NotationScore, planned: PlannedBar, plan: Plan, cache: BarCache): { group: SVGGElement; drawn: DrawnBar } {
-  const ctx = inkContext(doc);
+/**
+ * Draw a bar into a fresh `g.tx-bar` (system coordinates). `flat` draws it in far fewer elements (see
+ * FlatContext), for the browser's live drawing; the server keeps VexFlow's structure.
+ */
+export function drawBarGroup(
+  doc: Document,
+  score: NotationScore,
+  planned: PlannedBar,
+  plan: Plan,
+  cache: BarCache,
+  flat = false,
+): { group: SVGGElement; drawn: DrawnBar } {
+  const ctx = inkContext(doc, flat);
   const build = cache.build(score, score.bars[planned.index]!, planned.flags);
   const drawn = build.draw(ctx, planned.x, planned.width, plan.systems[planned.system]!.geometry);
   const group = doc.createElementNS(SVG_NS, "g") as SVGGElement;
   group.setAttribute("class", "tx-bar");
   group.setAttribute("data-bar", String(planned.index));
+  if (ctx instanceof FlatContext) ctx.flush();
   const svg = ctx.svg;
   while (svg.firstChild) group.appendChild(svg.firstChild);
   tidySvg(group);
@@ -119,8 +247,8 @@ export function drawBarGroup(doc: Document, score: NotationScore, planned: Plann
 }
 
 /** The ties crossing bar lines in one system, and half ties at its edges. */
-export function drawSystemTies(doc: Document, bars: readonly DrawnBar[]): SVGGElement {
-  const ctx = inkContext(doc);
+export function drawSystemTies(doc: Document, bars: readonly DrawnBar[], flat = false): SVGGElement {
+  const ctx = inkContext(doc, flat);
   const match = (a: TieAnchor, b: TieAnchor) => a.midi === b.midi && a.staff === b.staff;
   bars.forEach((bar, k) => {
     const next = bars[k + 1];
@@ -136,6 +264,7 @@ export function drawSystemTies(doc: Document, bars: readonly DrawnBar[]): SVGGEl
   });
   const group = doc.createElementNS(SVG_NS, "g") as SVGGElement;
   group.setAttribute("class", "tx-ties");
+  if (ctx instanceof FlatContext) ctx.flush();
   const svg = ctx.svg;
   while (svg.firstChild) group.appendChild(svg.firstChild);
   tidySvg(group);

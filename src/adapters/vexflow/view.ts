@@ -6,7 +6,8 @@
  * Unlike the server's single SVG (./render.ts), each bar here is its own small <svg>, placed absolutely over
  * the bar's box (content may overflow it), and each system's ties are one more. The browser then repaints
  * only the bar that changed: one SVG for the whole score repaints all of it on every edit, which measured
- * two to three times slower in chromium. The groups inside are the same as the server's (g.tx-bar, g.tx-ties).
+ * two to three times slower in chromium. The groups are the server's (g.tx-bar, g.tx-ties), drawn in far fewer
+ * elements (FlatContext in ./render.ts), since each costs the browser style and layout work on every redraw.
  *
  * A playhead overlay (two absolutely placed boxes) marks the playing bar and beat without touching the SVG.
  */
@@ -104,7 +105,7 @@ export class NotationRenderer {
         }
         continue;
       }
-      const { group, drawn } = drawBarGroup(doc, score, planned, plan, this.cache);
+      const { group, drawn } = drawBarGroup(doc, score, planned, plan, this.cache, true);
       const svg = this.pieceSvg(doc, plan, planned.system, opts, planned);
       svg.setAttribute("data-bar", String(planned.index));
       svg.appendChild(group);
@@ -130,7 +131,7 @@ export class NotationRenderer {
       const drawnBars = system.bars.map((b) => this.bars.get(b)!.drawn);
       const svg = this.pieceSvg(doc, plan, system.index, opts);
       svg.dataset.y = String(system.y);
-      svg.appendChild(drawSystemTies(doc, drawnBars));
+      svg.appendChild(drawSystemTies(doc, drawnBars, true));
       if (old) old.replaceWith(svg);
       else this.canvas.insertBefore(svg, this.barBox);
       this.ties[system.index] = svg;

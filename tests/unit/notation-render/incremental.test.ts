@@ -8,7 +8,7 @@ import { describe, expect, it } from "vitest";
 import { useFontFileMetrics } from "../../../src/adapters/vexflow/server";
 import { NotationRenderer } from "../../../src/adapters/vexflow/view";
 import { spellGroove, toggleHit } from "../../../src/lib/rhythm";
-import { every, groove } from "./svg";
+import { every, groove, inkOf, render } from "./svg";
 
 useFontFileMetrics();
 
@@ -85,6 +85,36 @@ describe("incremental notation", () => {
     const rest = (l: typeof first, from: number) => l.systems.map((sys) => sys.bars).filter((b) => b[0]! >= from);
     expect(rest(second, firstLine.at(-1)! + 1)).toEqual(rest(first, firstLine.at(-1)! + 1));
     expect(r.lastStats.barsDrawn).toBeLessThanOrEqual(firstLine.length);
+  });
+
+  it("puts on the page exactly what the server draws, in far fewer elements", () => {
+    const doc = groove({
+      bars: 3,
+      kit: { "hihat-closed": every(1, 24, 8), snare: ["1/4", { at: "7/16", dynamic: "ghost" }, "3/4", { at: "5/4", dynamic: "accent" }], kick: every(1, 12, 4) },
+      keys: [
+        { at: "0", duration: "1/2", pitch: 64 },
+        { at: "1/2", duration: "3/4", pitch: 48 },
+        { at: "2", duration: "1/8", pitch: 61 },
+      ],
+    });
+    const { r } = mount(700);
+    r.update(spellGroove(doc), { width: 700 });
+    const server = render(doc, { width: 700 });
+    // Bars in bar order, then the ties of each system.
+    const groups = (root: ParentNode) => [
+      ...[...root.querySelectorAll("g.tx-bar")].sort((a, b) => Number(a.getAttribute("data-bar")) - Number(b.getAttribute("data-bar"))),
+      ...root.querySelectorAll("g.tx-ties"),
+    ];
+    const page = groups(r.canvas);
+    const drawn = groups(server.doc);
+    expect(page.length).toBe(drawn.length);
+    expect(page.flatMap(inkOf)).toEqual(drawn.flatMap(inkOf));
+    // A fraction of the elements: no <g> inside a bar, like strokes and glyphs merged, and each element keeps
+    // the class of the VexFlow group it was drawn in (all noteheads and rests are in text.vf-notehead).
+    expect(r.canvas.querySelectorAll("g.tx-bar g").length).toBe(0);
+    expect(r.canvas.querySelectorAll("g.tx-bar *").length * 4).toBeLessThanOrEqual(server.doc.querySelectorAll("g.tx-bar *").length);
+    const glyphs = (els: Iterable<Element>) => [...els].reduce((n, t) => n + (t.textContent?.length ?? 0), 0);
+    expect(glyphs(r.canvas.querySelectorAll("text.vf-notehead"))).toBe(glyphs(server.doc.querySelectorAll("g.vf-notehead > text")));
   });
 
   it("moves the playhead overlay to the bar and beat without redrawing", () => {

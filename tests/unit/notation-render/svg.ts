@@ -51,6 +51,54 @@ export function render(input: GrooveDocument | NotationScore, opts: Partial<Rend
   return { ...result, score, doc, root: doc.documentElement as unknown as SVGSVGElement };
 }
 
+/**
+ * Attributes an SVG element takes from its ancestors when it does not set them itself, with the values the
+ * drawing's <svg> gives them (createInkSvg in src/adapters/vexflow/render.ts; none = not set).
+ */
+const INHERITED: Record<string, string> = {
+  fill: "currentColor",
+  stroke: "currentColor",
+  "stroke-width": "1",
+  "stroke-dasharray": "none",
+  "font-family": "Bravura,Academico",
+  "font-size": "10pt",
+  "font-weight": "normal",
+  "font-style": "normal",
+};
+
+/**
+ * What a drawing puts on the page, stroke by stroke and glyph by glyph: every path, rect and text under
+ * `group`, with the colours, line width and font it is drawn with (its own, or the one an enclosing element
+ * sets) and its own geometry and text. A path of several subpaths counts as one path per subpath, a text that
+ * places each of its glyphs (x and y lists) as one text per glyph. Wrapper groups, classes, ids and the order
+ * of elements do not count (everything is drawn in one colour), so the browser's flat, merged drawing and
+ * the server's grouped one compare equal when they draw the same.
+ * @example inkOf(barGroup)[0] // '<path d=M10 20L30 20 fill=none font-family=Bravura,Academico …>'
+ */
+export function inkOf(group: Element): string[] {
+  // One selector, not "path, rect, text": jsdom's engine does not keep document order across a selector list.
+  const drawn = [...group.querySelectorAll("*")].filter((el) => el.localName === "path" || el.localName === "rect" || el.localName === "text");
+  return drawn
+    .flatMap((el) => {
+      const attrs: string[] = [];
+      for (const [name, value] of Object.entries(INHERITED)) {
+        let from: Element | null = el;
+        while (from && !from.hasAttribute(name)) from = from.parentElement;
+        attrs.push(`${name}=${from ? from.getAttribute(name) : value}`);
+      }
+      const own = [...el.attributes].filter((a) => !(a.name in INHERITED) && a.name !== "class" && a.name !== "id");
+      const rest = own.filter((a) => !["d", "x", "y"].includes(a.name)).map((a) => `${a.name}=${a.value}`);
+      const line = (extra: string[], text: string) => `<${el.localName} ${[...attrs, ...rest, ...extra].sort().join(" ")}>${text}`;
+      if (el.localName === "path") return (el.getAttribute("d") ?? "").split(/(?=M)/).map((d) => line([`d=${d}`], ""));
+      const xs = (el.getAttribute("x") ?? "").split(" ").filter(Boolean);
+      const ys = (el.getAttribute("y") ?? "").split(" ").filter(Boolean);
+      const text = el.textContent ?? "";
+      if (el.localName === "text" && xs.length > 1) return [...text].map((ch, i) => line([`x=${xs[i]}`, `y=${ys[i]}`], ch));
+      return [line([...(el.hasAttribute("x") ? [`x=${xs.join(" ")}`] : []), ...(el.hasAttribute("y") ? [`y=${ys.join(" ")}`] : [])], text)];
+    })
+    .sort();
+}
+
 /** SMuFL code points (as Bravura and VexFlow 5 name them). */
 export const GLYPH = {
   percussionClef: "\uE069", // unpitchedPercussionClef1
