@@ -13,7 +13,7 @@ import { NotationRenderer, type PlayPosition } from "./view";
 import { forgetTextMetrics } from "./vexflow";
 
 export { renderScoreSvg, type RenderOptions, type RenderResult, type ScoreLayout, type BarLayout, type SystemLayout } from "./render";
-export { NotationRenderer, type PlayPosition, type UpdateStats } from "./view";
+export { NotationRenderer, warmUp, type PlayPosition, type UpdateStats } from "./view";
 
 const FONT_FACES = ["30pt Bravura", "10pt Academico", "bold 10pt Academico"];
 let fontsReady: Promise<void> | null = null;

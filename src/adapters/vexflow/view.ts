@@ -200,6 +200,34 @@ export class NotationRenderer {
   }
 }
 
+/** Bars drawn by warmUp, and how many times each. */
+const WARM_BARS = 4;
+const WARM_ROUNDS = 3;
+
+/**
+ * Draw the score's first bars off-screen a few times, one bar per idle moment, so that the browser has
+ * compiled the drawing code before the first edit: the first edits otherwise take up to half as long again
+ * as later ones. Returns a function that stops what is not done yet.
+ * @example const stop = warmUp(score, { width: 800 }); // … later, on unmount: stop()
+ */
+export function warmUp(score: NotationScore, opts: RenderOptions): () => void {
+  const bars = Math.min(score.bars.length, WARM_BARS);
+  if (typeof requestIdleCallback === "undefined" || bars === 0) return () => {};
+  let left = bars * WARM_ROUNDS;
+  let handle = 0;
+  const step = (deadline: IdleDeadline) => {
+    while (left > 0 && deadline.timeRemaining() > 6) {
+      left--;
+      const bar = left % bars;
+      // A fresh renderer each time: nothing measured or drawn before is reused, as for an edited bar.
+      new NotationRenderer(document.createElement("div")).update(score, { ...opts, fromBar: bar, toBar: bar + 1 });
+    }
+    if (left > 0) handle = requestIdleCallback(step);
+  };
+  handle = requestIdleCallback(step);
+  return () => cancelIdleCallback(handle);
+}
+
 /** What a bar's drawing depends on in its system (not the system's place on the page). */
 function geometryKey(plan: Plan, system: number): string {
   const g = plan.systems[system]!.geometry;

@@ -91,7 +91,7 @@ export default function GrooveEditor(props: GrooveEditorProps) {
 function EditorNotation() {
   const doc = useEditor((s) => s.doc);
   const playhead = useEditor((s) => s.playhead);
-  return <NotationPreview doc={doc} playhead={playhead} label="Notation of this groove" />;
+  return <NotationPreview doc={doc} playhead={playhead} label="Notation of this groove" live />;
 }
 
 function EditorShell({ draft, onDiscard }: { draft: DraftInfo; onDiscard: () => void }) {

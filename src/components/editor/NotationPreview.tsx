@@ -12,12 +12,14 @@ export interface NotationPreviewProps {
   doc: GrooveDocument;
   playhead?: PlayPosition | null;
   label?: string;
+  /** The notation of the groove being edited (see NotationView's warmUp). */
+  live?: boolean;
 }
 
-export function NotationPreview({ doc, playhead = null, label = "Notation" }: NotationPreviewProps) {
+export function NotationPreview({ doc, playhead = null, label = "Notation", live = false }: NotationPreviewProps) {
   return (
     <figure className="tx-notation" aria-label={label}>
-      <NotationView doc={doc} playhead={playhead} className="tx-notation-host" />
+      <NotationView doc={doc} playhead={playhead} className="tx-notation-host" warmUp={live} />
     </figure>
   );
 }

@@ -36,6 +36,8 @@ export interface NotationViewProps {
   className?: string;
   /** Called after each drawing with the position of every bar and beat. */
   onLayout?: (layout: ScoreLayout) => void;
+  /** The drawing will be edited: after the first drawing, warm up the drawing code while the page is idle. */
+  warmUp?: boolean;
 }
 
 let adapterPromise: Promise<Adapter> | null = null;
@@ -44,7 +46,7 @@ function loadAdapter(): Promise<Adapter> {
   return adapterPromise;
 }
 
-export function NotationView({ doc, score: given, playhead = null, showKeys = true, fromBar, toBar, label, className, onLayout }: NotationViewProps) {
+export function NotationView({ doc, score: given, playhead = null, showKeys = true, fromBar, toBar, label, className, onLayout, warmUp = false }: NotationViewProps) {
   const host = useRef<HTMLDivElement>(null);
   const renderer = useRef<Renderer | null>(null);
   const lastDrawn = useRef<{ score: NotationScore; width: number } | null>(null);
@@ -55,6 +57,7 @@ export function NotationView({ doc, score: given, playhead = null, showKeys = tr
   const [drawError, setDrawError] = useState<string | null>(null);
   const layoutCallback = useRef(onLayout);
   layoutCallback.current = onLayout;
+  const stopWarmUp = useRef<(() => void) | null>(null);
 
   const score = useMemo<NotationScore | Error | null>(() => {
     if (given) return given;
@@ -109,11 +112,13 @@ export function NotationView({ doc, score: given, playhead = null, showKeys = tr
       el.dataset.barsDrawn = String(Number(el.dataset.barsDrawn ?? 0) + renderer.current.lastStats.barsDrawn);
       el.dataset.drawMs = (Number(el.dataset.drawMs ?? 0) + renderer.current.lastStats.ms).toFixed(2);
       requestAnimationFrame(() => performance.mark?.("tactus:painted"));
+      if (warmUp && !prev) stopWarmUp.current = adapter.warmUp(score, { width, showKeys });
       setDrawError(null);
       layoutCallback.current?.(layout);
     } catch (e) {
       setDrawError(e instanceof Error ? e.message : String(e));
     }
+    // warmUp is read at the first drawing only.
   }, [adapter, fontsReady, width, score, showKeys, fromBar, toBar]);
 
   useEffect(() => {
@@ -122,6 +127,7 @@ export function NotationView({ doc, score: given, playhead = null, showKeys = tr
 
   useEffect(
     () => () => {
+      stopWarmUp.current?.();
       renderer.current?.dispose();
       renderer.current = null;
     },
