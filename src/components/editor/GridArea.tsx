@@ -95,15 +95,17 @@ export function GridArea({ menuRef }: { menuRef: React.MutableRefObject<(() => v
     frame.current = requestAnimationFrame(measure);
   };
 
-  const cursorCol = useEditor((s) => s.cursor.col);
   const perBar = Math.max(1, columns.length / Math.max(1, bars));
   // The window grows at once to reach the cursor, but shrinks only when the view is measured again (on
   // scroll or resize): a click that moves the cursor then never unmounts the columns the old cursor kept,
-  // which cost more than the edit itself.
-  const now = columnWindow(view?.view ?? null, columns.length, perBar, cursorCol);
-  const kept = columnWindow(view?.view ?? null, columns.length, perBar, view?.cursor ?? cursorCol);
-  const first = Math.min(now.first, kept.first);
-  const last = Math.max(now.last, kept.last);
+  // which cost more than the edit itself. Only a change of window re-renders the grids, not every cursor move.
+  const [first, last] = useEditor(
+    useShallow((s) => {
+      const now = columnWindow(view?.view ?? null, columns.length, perBar, s.cursor.col);
+      const kept = columnWindow(view?.view ?? null, columns.length, perBar, view?.cursor ?? s.cursor.col);
+      return [Math.min(now.first, kept.first), Math.max(now.last, kept.last)] as const;
+    }),
+  );
 
   return (
     <div ref={scrollRef} className="tx-scroll" tabIndex={-1} onScroll={onScroll}>

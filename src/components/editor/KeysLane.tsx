@@ -108,7 +108,8 @@ export function KeysLane({ columns, shade, first, last }: { columns: GridColumn[
   const range = useEditor((s) => s.keysRange);
   const rows = useEditor(useShallow((s) => keysRows(s.doc, s.keysRange)));
   const splitPitch = useEditor((s) => s.doc.keys.splitPitch);
-  const cursor = useEditor((s) => s.cursor);
+  // The keys cursor only (pitch:col), so a click in the kit grid does not re-render the keys lane.
+  const keysCursor = useEditor((s) => (s.cursor.area === "keys" ? `${s.cursor.pitch}:${s.cursor.col}` : ""));
   const cursorNote = useEditor((s) => (s.cursor.area === "keys" ? keyNoteAt(s.doc, s.cursor.pitch, columnsAt(s.doc.grid.step, s.cursor.col)) : undefined));
   const gridRef = useRef<HTMLDivElement>(null);
   const dragging = useRef(false);
@@ -121,11 +122,12 @@ export function KeysLane({ columns, shade, first, last }: { columns: GridColumn[
   useEffect(() => {
     const grid = gridRef.current;
     // Follow the cursor when the focus is anywhere in the grids (arrow keys cross from the kit into the keys).
-    if (!grid || cursor.area !== "keys" || !grid.closest(".tx-canvas")?.contains(document.activeElement)) return;
+    if (!grid || !keysCursor || !grid.closest(".tx-canvas")?.contains(document.activeElement)) return;
     if (document.activeElement?.closest(".tx-menu")) return; // the note menu keeps the focus it took
-    const cell = grid.querySelector<HTMLElement>(`[data-pcell][data-pitch="${cursor.pitch}"][data-col="${cursor.col}"]`);
+    const [pitch, col] = keysCursor.split(":");
+    const cell = grid.querySelector<HTMLElement>(`[data-pcell][data-pitch="${pitch}"][data-col="${col}"]`);
     if (cell && cell !== document.activeElement) cell.focus();
-  }, [cursor]);
+  }, [keysCursor]);
 
   useGestureEnd(dragging, actions.endGesture);
 
@@ -186,7 +188,11 @@ export function KeysLane({ columns, shade, first, last }: { columns: GridColumn[
     actions.setKeysRange({ low, high: low + (range.high - range.low) });
   };
 
-  const c = store.getState().cursor;
+  const [cursorPitch, cursorCol] = keysCursor ? keysCursor.split(":").map(Number) : [null, 0];
+  const resizeAtCursor = (steps: number) => {
+    const c = store.getState().cursor;
+    if (c.area === "keys") actions.resizeNoteBy(c.pitch, c.col, steps);
+  };
   return (
     <div className="tx-keys">
       <div className="tx-keys-tools">
@@ -204,7 +210,7 @@ export function KeysLane({ columns, shade, first, last }: { columns: GridColumn[
           type="button"
           className="tx-btn is-small"
           disabled={!cursorNote}
-          onClick={() => c.area === "keys" && actions.resizeNoteBy(c.pitch, c.col, 1)}
+          onClick={() => resizeAtCursor(1)}
         >
           Longer
         </button>
@@ -212,11 +218,11 @@ export function KeysLane({ columns, shade, first, last }: { columns: GridColumn[
           type="button"
           className="tx-btn is-small"
           disabled={!cursorNote}
-          onClick={() => c.area === "keys" && actions.resizeNoteBy(c.pitch, c.col, -1)}
+          onClick={() => resizeAtCursor(-1)}
         >
           Shorter
         </button>
-        <NoteVelocity pitch={c.area === "keys" ? c.pitch : null} col={c.col} />
+        <NoteVelocity pitch={cursorPitch ?? null} col={cursorCol ?? 0} />
       </div>
       <div
         ref={gridRef}

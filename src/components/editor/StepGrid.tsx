@@ -36,19 +36,10 @@ export function StepGrid({ columns, shade, first, last, menuRef }: StepGridProps
   const pieces = useEditor(useShallow((s) => s.doc.kit.lanes.map((l) => l.piece)));
   const bars = useEditor((s) => s.doc.bars);
   const selection = useEditor((s) => s.selection);
-  const cursor = useEditor((s) => s.cursor);
   const gridRef = useRef<HTMLDivElement>(null);
   const painting = useRef(false);
   const touch = useRef<{ row: number; col: number; timer: number; opened: boolean } | null>(null);
   const [menu, setMenu] = useState<MenuTarget | null>(null);
-
-  // Keep DOM focus on the cursor cell while the grid has focus (roving tabindex).
-  useEffect(() => {
-    const grid = gridRef.current;
-    if (!grid || cursor.area !== "kit" || !grid.closest(".tx-canvas")?.contains(document.activeElement)) return;
-    const cell = grid.querySelector<HTMLElement>(`[data-kcell][data-row="${cursor.row}"][data-col="${cursor.col}"]`);
-    if (cell && cell !== document.activeElement) cell.focus();
-  }, [cursor]);
 
   useGestureEnd(painting, actions.endGesture);
 
@@ -206,8 +197,24 @@ export function StepGrid({ columns, shade, first, last, menuRef }: StepGridProps
         </label>
       </div>
       {menu && <HitMenu target={menu} onClose={() => setMenu(null)} gridRef={gridRef} />}
+      <FollowCursor gridRef={gridRef} />
     </>
   );
+}
+
+/**
+ * Keeps DOM focus on the cursor cell while the grid has focus (roving tabindex). Its own component, so a
+ * cursor move re-renders this alone and not the grid.
+ */
+function FollowCursor({ gridRef }: { gridRef: React.RefObject<HTMLDivElement | null> }) {
+  const at = useEditor((s) => (s.cursor.area === "kit" ? `[data-kcell][data-row="${s.cursor.row}"][data-col="${s.cursor.col}"]` : null));
+  useEffect(() => {
+    const grid = gridRef.current;
+    if (!grid || !at || !grid.closest(".tx-canvas")?.contains(document.activeElement)) return;
+    const cell = grid.querySelector<HTMLElement>(at);
+    if (cell && cell !== document.activeElement) cell.focus();
+  }, [at, gridRef]);
+  return null;
 }
 
 /** The count header ("1 e & a"): depends on the layout only, so it is memoised. */
