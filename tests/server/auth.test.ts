@@ -112,6 +112,17 @@ describe("sign-up and sessions", () => {
     expect((await api("GET", "/api/auth/me", { cookie: c })).status).toBe(401);
   });
 
+  it("looks a busy remembered session up again before it lapses (the list fast lane keeps answering)", async () => {
+    const user = await createUser();
+    const token = await sessionFor(user.id);
+    const list = () => api("GET", "/api/grooves?scope=mine&pageSize=1", { cookie: token });
+    expect((await list()).status).toBe(200); // through Astro: validated and remembered
+    await new Promise((r) => setTimeout(r, SESSION_REMEMBER_MS - 300)); // inside the last 500 ms
+    expect((await list()).headers.get("content-length")).not.toBeNull(); // the lane, which starts the lookup
+    await new Promise((r) => setTimeout(r, 500)); // past the first lifetime
+    expect((await list()).headers.get("content-length")).not.toBeNull(); // still the lane: looked up again
+  });
+
   it("signs out: the session row is gone and the cookie cleared", async () => {
     const user = await createUser();
     const token = await sessionFor(user.id);

@@ -13,6 +13,8 @@ import { LRUCache } from "lru-cache";
 export interface ReadCache<V> {
   /** The remembered value, if any and still alive. */
   get(key: string): V | undefined;
+  /** How long the entry has left to live (ms; 0 when there is none). */
+  remainingMs(key: string): number;
   /** A generation ticket: take it before reading the database, hand it to `set`. */
   ticket(): number;
   /** Remembers `value` unless the cache was emptied since `ticket` was taken. `ttlMs` shortens the lifetime. */
@@ -32,6 +34,7 @@ export function createReadCache<V extends NonNullable<unknown>>(opts: { max: num
   let generation = 0;
   const readCache: ReadCache<V> = {
     get: (key) => cache.get(key),
+    remainingMs: (key) => Math.max(0, cache.getRemainingTTL(key)),
     ticket: () => generation,
     set(key, value, ticket, ttlMs = opts.ttlMs) {
       if (ticket !== generation || ttlMs <= 0) return;

@@ -118,7 +118,10 @@ export async function validateSessionToken(token: string): Promise<SessionValida
   if (!/^[A-Za-z0-9_-]{20,64}$/.test(token)) return { user: null, session: null };
   const id = hashToken(token);
   const known = validated.get(id);
-  if (known) return known;
+  if (known) {
+    refreshAhead(id, known);
+    return known;
+  }
   // One lookup at a time per session: the requests a page fires together share it.
   let pending = lookups.get(id);
   if (!pending) {
@@ -129,6 +132,26 @@ export async function validateSessionToken(token: string): Promise<SessionValida
 }
 
 const lookups = new Map<string, Promise<SessionValidation>>();
+
+/** How long before a remembered session lapses it is looked up again in the background. */
+const REFRESH_AHEAD_MS = 500;
+
+/**
+ * Looks a remembered session up again shortly before it lapses, so a busy session never falls back to the slow path
+ * all at once. Not when the lookup would renew the session: the renewed cookie must go out with an answer, so that
+ * lookup is left to the first request after the lapse.
+ */
+function refreshAhead(id: string, known: ValidSession): void {
+  if (lookups.has(id) || validated.remainingMs(id) > REFRESH_AHEAD_MS) return;
+  if (Date.now() >= known.session.expiresAt.getTime() - SESSION_IDLE_MS / 2) return;
+  const pending = lookUp(id)
+    .catch((e: unknown): SessionValidation => {
+      console.error("session refresh failed:", e instanceof Error ? e.message : e);
+      return { user: null, session: null };
+    })
+    .finally(() => lookups.delete(id));
+  lookups.set(id, pending);
+}
 
 async function lookUp(id: string): Promise<SessionValidation> {
   const ticket = validated.ticket();
@@ -155,7 +178,10 @@ async function lookUp(id: string): Promise<SessionValidation> {
  */
 export function rememberedSession(token: string): ValidSession | undefined {
   if (!/^[A-Za-z0-9_-]{20,64}$/.test(token)) return undefined;
-  return validated.get(hashToken(token));
+  const id = hashToken(token);
+  const known = validated.get(id);
+  if (known) refreshAhead(id, known);
+  return known;
 }
 
 /** Forgets remembered sessions of one user (their account changed), or all of them. */
