@@ -1,6 +1,6 @@
 // The groove library: list, create, read, update details, soft delete and restore (30 days), fork.
 // Every access goes through `authorizeGroove`, which applies the rules of roles.ts.
-import { and, asc, desc, eq, ilike, isNotNull, isNull, lt, or, sql, type SQL } from "drizzle-orm";
+import { and, asc, desc, eq, ilike, isNotNull, isNull, lt, or, sql, type Placeholder, type SQL } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
 import { nanoid } from "nanoid";
 import { z } from "zod";
@@ -48,6 +48,24 @@ export interface LoadedGroove {
   role: GrooveRole | null;
 }
 
+/** The groove and the actor's collaborator role on it. */
+function grooveWithRole(db: Executor, actorId: string | Placeholder, grooveId: string | Placeholder) {
+  return db
+    .select({ groove: grooves, collaboratorRole: collaborators.role })
+    .from(grooves)
+    .leftJoin(collaborators, and(eq(collaborators.grooveId, grooves.id), eq(collaborators.userId, actorId)))
+    .where(eq(grooves.id, grooveId))
+    .limit(1);
+}
+
+const prepareGrooveWithRole = () => grooveWithRole(getDb(), sql.placeholder("actor"), sql.placeholder("groove")).prepare("groove_with_role");
+let grooveWithRoleStatement: { db: unknown; statement: ReturnType<typeof prepareGrooveWithRole> } | undefined;
+/** The same read as a named prepared statement: built once per client, not per request (most groove requests start with it). */
+function preparedGrooveWithRole() {
+  if (grooveWithRoleStatement?.db !== getDb()) grooveWithRoleStatement = { db: getDb(), statement: prepareGrooveWithRole() };
+  return grooveWithRoleStatement.statement;
+}
+
 /**
  * Loads a groove and checks that the actor may do `action`. Throws 404 when it is missing (or deleted, or not
  * readable by the actor), 401 for anonymous visitors, 403 when readable but not allowed. Deleted grooves are
@@ -61,13 +79,12 @@ export async function authorizeGroove(
   opts: { lock?: boolean; allowDeleted?: boolean } = {},
 ): Promise<LoadedGroove> {
   if (!idSchema.safeParse(grooveId).success) throw new ApiError(404, "not_found", "No groove has this id.");
-  const base = db
-    .select({ groove: grooves, collaboratorRole: collaborators.role })
-    .from(grooves)
-    .leftJoin(collaborators, and(eq(collaborators.grooveId, grooves.id), eq(collaborators.userId, actor?.id ?? "")))
-    .where(eq(grooves.id, grooveId))
-    .limit(1);
-  const [row] = opts.lock ? await base.for("update", { of: grooves }) : await base;
+  const actorId = actor?.id ?? "";
+  const [row] = opts.lock
+    ? await grooveWithRole(db, actorId, grooveId).for("update", { of: grooves })
+    : db === getDb()
+      ? await preparedGrooveWithRole().execute({ actor: actorId, groove: grooveId })
+      : await grooveWithRole(db, actorId, grooveId);
   if (!row) throw new ApiError(404, "not_found", "No groove has this id.");
   const facts = { ownerId: row.groove.ownerId, visibility: row.groove.visibility, collaboratorRole: row.collaboratorRole };
   const who: Actor | null = actor ? { id: actor.id, siteRole: actor.siteRole } : null;

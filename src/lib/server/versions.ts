@@ -9,13 +9,13 @@
 // this code were wrong.
 import { createHash } from "node:crypto";
 import canonicalize from "canonicalize";
-import { and, desc, eq, lt, sql } from "drizzle-orm";
+import { and, desc, eq, lt } from "drizzle-orm";
 import { nanoid } from "nanoid";
 import type { VersionSummary, VersionWithDocument } from "../api-types";
 import type { GrooveDocument } from "../rhythm/document";
 import type { Executor } from "./audit";
 import { getDb } from "./db/index";
-import { auditEvents, grooveVersions, grooves, users } from "./db/schema";
+import { grooveVersions, grooves, users } from "./db/schema";
 import { authorizeGroove } from "./grooves";
 import { ApiError } from "./route";
 import type { SessionUser } from "./session";
@@ -107,6 +107,27 @@ export interface SaveInput {
 }
 
 /**
+ * One round trip, a named prepared statement: the pointer (moved only if it still names the base), the version
+ * numbered after the base, and the audit row. $1 new version id, $2 time, $3 groove, $4 base version, $5 document
+ * (JSON), $6 content hash, $7 author, $8 message, $9 audit action, $10 extra audit details (JSON).
+ */
+const SAVE_VERSION_SQL = `
+  with g as (
+    update grooves set latest_version_id = $1, updated_at = $2
+    where id = $3 and deleted_at is null and latest_version_id = $4
+    returning id
+  ), v as (
+    insert into groove_versions (id, groove_id, number, document, content_hash, author_id, message, parent_version_id, created_at)
+    select $1, g.id, coalesce((select number from groove_versions where id = $4), 0) + 1, $5::jsonb, $6, $7, $8, $4, $2
+    from g
+    returning number
+  ), a as (
+    insert into audit_events (actor_id, action, groove_id, version_id, details)
+    select $7, $9, $3, $1, jsonb_build_object('number', v.number, 'contentHash', $6::text) || $10::jsonb from v
+  )
+  select number from v`;
+
+/**
  * Appends a version. Throws ApiError 409 `version_conflict` (with `latest`, the latest version and its document)
  * when another save came first, and 401/403/404 as the roles say.
  * @example const v = await saveVersion(user, grooveId, { baseVersionId, document: parsed.doc, message: "Ghost notes" });
@@ -124,23 +145,11 @@ export async function saveVersion(
   const now = new Date();
   const base = input.baseVersionId;
   const extra = meta.restoredFrom ? { restoredFrom: meta.restoredFrom } : {};
-  // One round trip: the pointer (only if it still names the base), the version numbered after it, the audit row.
-  const result = await getDb().execute<{ number: number }>(sql`
-    with g as (
-      update ${grooves} set latest_version_id = ${id}, updated_at = ${now}
-      where id = ${grooveId} and deleted_at is null and latest_version_id = ${base}
-      returning id
-    ), v as (
-      insert into ${grooveVersions} (id, groove_id, number, document, content_hash, author_id, message, parent_version_id, created_at)
-      select ${id}, g.id, coalesce((select number from ${grooveVersions} where id = ${base}), 0) + 1,
-             ${JSON.stringify(input.document)}::jsonb, ${hash}, ${actor.id}, ${input.message}, ${base}, ${now}
-      from g
-      returning number
-    ), a as (
-      insert into ${auditEvents} (actor_id, action, groove_id, version_id, details)
-      select ${actor.id}, ${meta.action}, ${grooveId}, ${id}, jsonb_build_object('number', v.number, 'contentHash', ${hash}::text) || ${JSON.stringify(extra)}::jsonb from v
-    )
-    select number from v`);
+  const result = await getDb().$client.query<{ number: number }>({
+    name: "save_version",
+    text: SAVE_VERSION_SQL,
+    values: [id, now, grooveId, base, JSON.stringify(input.document), hash, actor.id, input.message, meta.action, JSON.stringify(extra)],
+  });
   const row = result.rows[0];
   if (!row) throw await conflict(grooveId);
   return {
