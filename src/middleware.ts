@@ -3,13 +3,13 @@
 import { defineMiddleware, sequence } from "astro:middleware";
 import { answerStored, conditional, freshPage, readStoreDirective, STORE_HEADER, storePage } from "./lib/server/embed-cache";
 import { installEmbedFastLane } from "./lib/server/embed-fast-lane";
-import { installListFastLane } from "./lib/server/list-fast-lane";
-import { installSaveFastLane } from "./lib/server/save-fast-lane";
+import { addFastLane } from "./lib/server/fast-lanes";
+import { listLane } from "./lib/server/list-fast-lane";
+import { saveLane } from "./lib/server/save-fast-lane";
 import { error } from "./lib/server/http";
 import { isCrossSiteWrite } from "./lib/server/origin";
 import { forgetAfterWrite } from "./lib/server/read-cache";
 import { clearSessionCookie, readSessionToken, setSessionCookie, validateSessionToken } from "./lib/server/session";
-import { forgetGrooveStates } from "./lib/server/sharing";
 import { embedCacheKey } from "./lib/share/embed-options";
 
 const SAFE_METHODS = new Set(["GET", "HEAD", "OPTIONS"]);
@@ -52,8 +52,8 @@ const auth = defineMiddleware(async (ctx, next) => {
 // Stored embed pages, the library list and saves are also answered before the adapter and Astro
 // (lib/server/fast-lanes.ts).
 installEmbedFastLane();
-installListFastLane();
-installSaveFastLane();
+addFastLane(listLane);
+addFastLane(saveLane);
 
 /** Embed pages whose whole response is stored and served without rendering (see lib/server/embed-cache.ts). */
 const STORED_PAGE = /^\/embed\/(?:[vg]\/[A-Za-z0-9_-]{1,64}|compare)\/?$/;
@@ -127,10 +127,7 @@ const publicSurfaces = defineMiddleware(async (ctx, next) => {
   }
   const response = await next();
   // A write may have changed what public surfaces may show (visibility, deletion, a new version): they re-read it.
-  if (!safe) {
-    forgetGrooveStates();
-    forgetAfterWrite();
-  }
+  if (!safe) forgetAfterWrite();
   return withFrameRules(safe ? conditional(request, response) : response, embeddable);
 });
 

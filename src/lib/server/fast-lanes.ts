@@ -27,15 +27,12 @@ export interface FastLane {
 const lanes: FastLane[] = [];
 let installed = false;
 
-/** Whether lanes are switched on (TACTUS_FAST_LANES=0 turns them all off). */
-export const fastLanesEnabled = () => process.env.TACTUS_FAST_LANES !== "0";
-
 /**
- * Adds a lane (idempotent per lane object; does nothing when lanes are off).
- * @example addFastLane(embedLane); // from src/middleware.ts, at import
+ * Adds a lane (idempotent per lane object; does nothing when TACTUS_FAST_LANES=0).
+ * @example addFastLane(listLane); // from src/middleware.ts, at import
  */
 export function addFastLane(lane: FastLane): void {
-  if (!fastLanesEnabled() || lanes.includes(lane)) return;
+  if (process.env.TACTUS_FAST_LANES === "0" || lanes.includes(lane)) return;
   lanes.push(lane);
   if (installed) return;
   installed = true;

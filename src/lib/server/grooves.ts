@@ -227,8 +227,9 @@ function buildListStatement(shape: ListShape, withTotal: boolean) {
 type ListStatement = ReturnType<typeof buildListStatement>;
 const listStatements = new Map<string, ListStatement>();
 
-function listStatement(shape: ListShape, withTotal: boolean): ListStatement {
-  const key = `${JSON.stringify(shape)}|${withTotal}`;
+/** The prepared statement of a shape (`shapeKey` is JSON.stringify(shape), computed once per request). */
+function listStatement(shape: ListShape, shapeKey: string, withTotal: boolean): ListStatement {
+  const key = `${shapeKey}|${withTotal}`;
   let statement = listStatements.get(key);
   if (!statement) {
     statement = buildListStatement(shape, withTotal);
@@ -274,15 +275,16 @@ export async function listGrooves(actor: SessionUser | null, query: ListQuery): 
     tag: query.tag?.trim().toLowerCase() ?? "",
     owner: query.owner === "me" ? me : (query.owner ?? ""),
   };
-  const totalKey = JSON.stringify([shape, params]);
+  const shapeKey = JSON.stringify(shape);
+  const totalKey = shapeKey + JSON.stringify(params);
   const page = { limit: query.pageSize, offset: (query.page - 1) * query.pageSize };
   let counted = totals.get(totalKey);
   let rows;
   if (counted !== undefined) {
-    rows = await listStatement(shape, false).execute({ ...params, ...page });
+    rows = await listStatement(shape, shapeKey, false).execute({ ...params, ...page });
   } else {
     const ticket = totals.ticket();
-    const statement = listStatement(shape, true);
+    const statement = listStatement(shape, shapeKey, true);
     rows = await statement.execute({ ...params, ...page });
     // An empty page (past the end) carries no total: ask for the total alone.
     counted = rows[0]?.total ?? (await statement.execute({ ...params, limit: 1, offset: 0 }))[0]?.total ?? 0;

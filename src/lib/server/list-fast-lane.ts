@@ -4,17 +4,16 @@
 // middleware, which sets or clears the cookie), and only a valid query (a 400 is explained by the route). The answer
 // is listForRequest's, with the route's JSON headers.
 import http from "node:http";
-import { parse as parseCookies } from "cookie";
-import { addFastLane, type FastLane } from "./fast-lanes";
+import type { FastLane } from "./fast-lanes";
 import { JSON_HEADERS } from "./http";
 import { listForRequest } from "./list-request";
 import { ApiError } from "./route";
-import { rememberedSession, SESSION_COOKIE_NAME, type SessionUser } from "./session";
+import { rememberedSession, sessionTokenInHeader, type SessionUser } from "./session";
 
 const LIST_PATH = /^\/api\/grooves\/?(?:\?|$)/;
 
 async function answer(req: http.IncomingMessage, res: http.ServerResponse): Promise<boolean> {
-  const token = req.headers.cookie ? parseCookies(req.headers.cookie)[SESSION_COOKIE_NAME] : undefined;
+  const token = sessionTokenInHeader(req.headers.cookie);
   let user: SessionUser | null = null;
   if (token !== undefined) {
     const known = rememberedSession(token);
@@ -34,15 +33,8 @@ async function answer(req: http.IncomingMessage, res: http.ServerResponse): Prom
   return true;
 }
 
-const listLane: FastLane = {
+/** Added from src/middleware.ts: `addFastLane(listLane)`. */
+export const listLane: FastLane = {
   accepts: (req) => req.method === "GET" && req.url !== undefined && LIST_PATH.test(req.url),
   answer,
 };
-
-/**
- * Installs the lane (idempotent; does nothing when TACTUS_FAST_LANES=0).
- * @example installListFastLane(); // from src/middleware.ts, at import
- */
-export function installListFastLane(): void {
-  addFastLane(listLane);
-}

@@ -4,8 +4,9 @@
 // Why: under load each request spent more on these repeated reads than on its own work (see the library-load
 // benchmark in DEVELOPERS.md). Rules that keep a remembered answer honest:
 // - a lifetime of a few seconds (changes made outside this process, by SQL or another server, show within it);
-// - caches marked `forgetOnWrite` are emptied by every write request that passes through this server
-//   (src/middleware.ts calls `forgetAfterWrite`), so a change made through Tactus is seen by the very next request;
+// - caches marked `forgetOnWrite` (and anything registered with `forgetOnEveryWrite`) are emptied by every write
+//   request that passes through this server (the middleware and the save lane call `forgetAfterWrite`), so a change
+//   made through Tactus is seen by the very next request;
 // - other caches are emptied on purpose by the code that changes what they hold (ending sessions, disabling users);
 // - an answer read before a forget is not stored after it (a generation number, see `ticket`).
 import { LRUCache } from "lru-cache";
@@ -23,7 +24,15 @@ export interface ReadCache<V> {
   forget(match?: (key: string, value: V) => boolean): void;
 }
 
-const forgottenOnWrite = new Set<ReadCache<unknown>>();
+const forgetters = new Set<() => void>();
+
+/**
+ * Registers what to forget after every write request (for a store that is not a ReadCache).
+ * @example forgetOnEveryWrite(forgetGrooveStates);
+ */
+export function forgetOnEveryWrite(forget: () => void): void {
+  forgetters.add(forget);
+}
 
 /**
  * A small LRU cache of reads with a lifetime.
@@ -46,11 +55,11 @@ export function createReadCache<V extends NonNullable<unknown>>(opts: { max: num
       for (const [key, value] of cache.entries()) if (match(key, value)) cache.delete(key);
     },
   };
-  if (opts.forgetOnWrite) forgottenOnWrite.add(readCache as ReadCache<unknown>);
+  if (opts.forgetOnWrite) forgetOnEveryWrite(() => readCache.forget());
   return readCache;
 }
 
-/** Empties every cache marked `forgetOnWrite` (called after each write request). */
+/** Empties every cache marked `forgetOnWrite` and runs every registered forget (called after each write request). */
 export function forgetAfterWrite(): void {
-  for (const c of forgottenOnWrite) c.forget();
+  for (const forget of forgetters) forget();
 }

@@ -5,14 +5,12 @@
 // outcome itself, through the route's own saveFromRequest and error handling, and then forgets what every write
 // request makes the server forget (as the middleware does).
 import http from "node:http";
-import { parse as parseCookies } from "cookie";
-import { addFastLane, type FastLane } from "./fast-lanes";
+import type { FastLane } from "./fast-lanes";
 import { isCrossSiteWrite } from "./origin";
 import { forgetAfterWrite } from "./read-cache";
 import { answerErrors } from "./route";
 import { saveFromRequest } from "./save-request";
-import { rememberedSession, SESSION_COOKIE_NAME } from "./session";
-import { forgetGrooveStates } from "./sharing";
+import { rememberedSession, sessionTokenInHeader } from "./session";
 import { MAX_DOCUMENT_BYTES } from "./versions";
 
 const SAVE_PATH = /^\/api\/grooves\/([A-Za-z0-9_-]{1,64})\/versions\/?$/;
@@ -31,7 +29,7 @@ function readBody(req: http.IncomingMessage): Promise<Buffer | null> {
 
 async function answer(req: http.IncomingMessage, res: http.ServerResponse): Promise<boolean> {
   const grooveId = SAVE_PATH.exec(req.url ?? "")?.[1];
-  const token = req.headers.cookie ? parseCookies(req.headers.cookie)[SESSION_COOKIE_NAME] : undefined;
+  const token = sessionTokenInHeader(req.headers.cookie);
   const known = token === undefined ? undefined : rememberedSession(token);
   const type = req.headers["content-type"] ?? "";
   const length = Number(req.headers["content-length"]);
@@ -55,7 +53,6 @@ async function answer(req: http.IncomingMessage, res: http.ServerResponse): Prom
   }
   const request = new Request("http://lane.invalid/", { method: "POST", headers: { "content-type": type }, body: new Uint8Array(body) });
   const response = await answerErrors(() => saveFromRequest(known.user, grooveId, request), { what: `POST ${req.url}`, aborted: () => req.destroyed });
-  forgetGrooveStates();
   forgetAfterWrite();
   const bytes = Buffer.from(await response.arrayBuffer());
   res.writeHead(response.status, { ...Object.fromEntries(response.headers), "content-length": bytes.byteLength });
@@ -63,15 +60,8 @@ async function answer(req: http.IncomingMessage, res: http.ServerResponse): Prom
   return true;
 }
 
-const saveLane: FastLane = {
+/** Added from src/middleware.ts: `addFastLane(saveLane)`. */
+export const saveLane: FastLane = {
   accepts: (req) => req.method === "POST" && req.url !== undefined && SAVE_PATH.test(req.url),
   answer,
 };
-
-/**
- * Installs the lane (idempotent; does nothing when TACTUS_FAST_LANES=0).
- * @example installSaveFastLane(); // from src/middleware.ts, at import
- */
-export function installSaveFastLane(): void {
-  addFastLane(saveLane);
-}

@@ -12,6 +12,7 @@ import { createHash, randomBytes } from "node:crypto";
 import { DrizzlePostgreSQLAdapter } from "@lucia-auth/adapter-drizzle";
 import { Lucia, TimeSpan } from "lucia";
 import type { AstroCookies } from "astro";
+import { parse as parseCookies } from "cookie";
 import { getDb } from "./db/index";
 import { sessions, users } from "./db/schema";
 import { createReadCache } from "./read-cache";
@@ -84,6 +85,11 @@ export function hashToken(token: string): string {
   return createHash("sha256").update(token).digest("hex");
 }
 
+/** The stored id of a cookie token, or null when the token cannot be one of ours. */
+function sessionIdOf(token: string): string | null {
+  return /^[A-Za-z0-9_-]{20,64}$/.test(token) ? hashToken(token) : null;
+}
+
 /** A new random token: 20 bytes, base64url (27 characters). */
 export function newToken(): string {
   return randomBytes(20).toString("base64url");
@@ -115,8 +121,8 @@ const validated = createReadCache<ValidSession>({ max: 10_000, ttlMs: SESSION_RE
  * never past the session's own expiry.
  */
 export async function validateSessionToken(token: string): Promise<SessionValidation> {
-  if (!/^[A-Za-z0-9_-]{20,64}$/.test(token)) return { user: null, session: null };
-  const id = hashToken(token);
+  const id = sessionIdOf(token);
+  if (id === null) return { user: null, session: null };
   const known = validated.get(id);
   if (known) {
     refreshAhead(id, known);
@@ -177,8 +183,8 @@ async function lookUp(id: string): Promise<SessionValidation> {
  * fresh: a session that needs its cookie sent again is answered by `validateSessionToken` only.
  */
 export function rememberedSession(token: string): ValidSession | undefined {
-  if (!/^[A-Za-z0-9_-]{20,64}$/.test(token)) return undefined;
-  const id = hashToken(token);
+  const id = sessionIdOf(token);
+  if (id === null) return undefined;
   const known = validated.get(id);
   if (known) refreshAhead(id, known);
   return known;
@@ -213,6 +219,11 @@ export function setSessionCookie(cookies: AstroCookies, token: string, createdAt
 export function clearSessionCookie(cookies: AstroCookies): void {
   const cookie = auth().createBlankSessionCookie();
   cookies.set(cookie.name, cookie.value, { ...cookie.attributes, httpOnly: true, sameSite: "lax", secure: SECURE, path: "/" });
+}
+
+/** The token in a raw Cookie header (the fast lanes, which see node:http requests), if any. */
+export function sessionTokenInHeader(cookieHeader: string | undefined): string | undefined {
+  return cookieHeader ? parseCookies(cookieHeader)[SESSION_COOKIE_NAME] : undefined;
 }
 
 /** The token in the request's session cookie, if any. */

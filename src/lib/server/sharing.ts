@@ -8,6 +8,7 @@ import { and, desc, eq, isNull } from "drizzle-orm";
 import { parseGroove, type GrooveDocument } from "../rhythm/document";
 import { getDb } from "./db/index";
 import { grooveVersions, grooves, users } from "./db/schema";
+import { forgetOnEveryWrite } from "./read-cache";
 import type { Visibility } from "./roles";
 
 /** Whether a groove may appear on public surfaces (embed, oEmbed, preview image, sitemap). */
@@ -170,11 +171,12 @@ export function grooveState(grooveId: string): Promise<GrooveState | null> {
 }
 
 /** Forget every known groove state (after any write request: visibility, deletion, saves, restores…). */
-export function forgetGrooveStates(): void {
+function forgetGrooveStates(): void {
   generation++;
   states.clear();
   inFlight.clear();
 }
+forgetOnEveryWrite(forgetGrooveStates);
 
 export interface SitemapEntry {
   id: string;
