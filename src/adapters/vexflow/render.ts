@@ -94,6 +94,9 @@ class InkContext extends SVGContext {
     }
     return this;
   }
+
+  /** Write anything held back (nothing here; FlatContext merges), before the elements are taken from the context. */
+  flush(): void {}
 }
 
 /** Attributes VexFlow's SVG context never writes on a path. */
@@ -125,8 +128,9 @@ class FlatContext extends InkContext {
   private readonly open: { cls: string; real: boolean }[] = [];
   private readonly merged = new Map<string, Merged>();
 
-  /** Elements inherit these from the drawing's <svg> (createInkSvg), so they need not repeat them. */
-  inheritInk(): void {
+  constructor(element: HTMLElement) {
+    super(element);
+    // Elements inherit these from the drawing's <svg> (createInkSvg), so they need not repeat them.
     const root = this.groupAttributes[0]!;
     root.fill = "currentColor";
     root.stroke = "currentColor";
@@ -168,7 +172,7 @@ class FlatContext extends InkContext {
   }
 
   /** Write the merged paths and texts (after drawing, before the elements are taken from the context). */
-  flush(): void {
+  override flush(): void {
     for (const m of this.merged.values()) {
       const el = this.create(m.kind);
       for (const [name, value] of m.attrs) el.setAttribute(name, value);
@@ -217,7 +221,6 @@ function inkContext(doc: Document, flat = false): InkContext {
   const ctx = flat ? new FlatContext(doc.createElement("div")) : new InkContext(doc.createElement("div"));
   ctx.setFillStyle("currentColor");
   ctx.setStrokeStyle("currentColor");
-  if (ctx instanceof FlatContext) ctx.inheritInk();
   return ctx;
 }
 
@@ -239,7 +242,7 @@ export function drawBarGroup(
   const group = doc.createElementNS(SVG_NS, "g") as SVGGElement;
   group.setAttribute("class", "tx-bar");
   group.setAttribute("data-bar", String(planned.index));
-  if (ctx instanceof FlatContext) ctx.flush();
+  ctx.flush();
   const svg = ctx.svg;
   while (svg.firstChild) group.appendChild(svg.firstChild);
   tidySvg(group);
@@ -264,7 +267,7 @@ export function drawSystemTies(doc: Document, bars: readonly DrawnBar[], flat = 
   });
   const group = doc.createElementNS(SVG_NS, "g") as SVGGElement;
   group.setAttribute("class", "tx-ties");
-  if (ctx instanceof FlatContext) ctx.flush();
+  ctx.flush();
   const svg = ctx.svg;
   while (svg.firstChild) group.appendChild(svg.firstChild);
   tidySvg(group);
